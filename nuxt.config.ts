@@ -1,3 +1,5 @@
+import { fileURLToPath } from 'node:url'
+
 // Nuxt configuration. srcDir is explicit so a stray app/ folder never moves the source root.
 export default defineNuxtConfig({
   compatibilityDate: '2025-07-15',
@@ -15,11 +17,22 @@ export default defineNuxtConfig({
     },
   },
   runtimeConfig: {
-    databaseUrl: '',
-    session: { name: 'boothbeat-session', cookie: { sameSite: 'lax' } },
+    session: {
+      name: 'boothbeat-session',
+      maxAge: 60 * 60 * 12,
+      cookie: { sameSite: 'lax', secure: false, httpOnly: true },
+    },
   },
   nitro: {
     experimental: { tasks: false },
   },
   typescript: { strict: true },
+  hooks: {
+    // Our API error shape first; pages still get Nuxt's own error handling after it.
+    'nitro:config'(config) {
+      const ours = fileURLToPath(new URL('./server/error-handler.ts', import.meta.url))
+      const rest = config.errorHandler ? (Array.isArray(config.errorHandler) ? config.errorHandler : [config.errorHandler]) : []
+      config.errorHandler = [ours, ...rest.filter((h) => h !== ours)]
+    },
+  },
 })

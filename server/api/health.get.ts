@@ -1,0 +1,19 @@
+import { sql } from 'kysely'
+
+// Public contract (DESIGN.md §11): 200 when database, broker and ingestion are up, else 503.
+export default defineEventHandler(async (event) => {
+  const started = Date.now()
+  let database: { up: boolean; latencyMs?: number; error?: string }
+  try {
+    await sql`SELECT 1`.execute(useDb())
+    const migrated = componentStates().database?.up ?? false
+    database = { up: migrated, latencyMs: Date.now() - started, ...(migrated ? {} : { error: 'migrating' }) }
+  } catch (e) {
+    database = { up: false, error: e instanceof Error ? e.message : String(e) }
+  }
+  const components = componentStates()
+  const telemetry = healthOfTelemetry()
+  const up = database.up && telemetry.up
+  setResponseStatus(event, up ? 200 : 503)
+  return { status: up ? 'ok' : 'degraded', database, ...telemetry.body, components }
+})

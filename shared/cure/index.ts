@@ -1,0 +1,12 @@
+// The cure engine: pure functions over booth readings. See README.md in this folder for the API.
+export * from './applicationWindow'
+export * from './cureCredit'
+export * from './flash'
+export * from './guards'
+export * from './potLife'
+export * from './psychrometrics'
+export * from './q10'
+export * from './reasons'
+export * from './reducer'
+export * from './samples'
+export * from './units'

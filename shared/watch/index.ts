@@ -1,0 +1,10 @@
+// Watch rules (alerts) and drift detection: pure, incremental, JSON state. See DESIGN.md §6.
+export * from './reading'
+export * from './threshold'
+export * from './silence'
+export * from './cusum'
+export * from './subgroup'
+export * from './bake'
+export * from './rules'
+export * from './message'
+export * from './evaluator'
