@@ -4,7 +4,7 @@
 
 import { pathToFileURL } from 'node:url'
 import { DEMO_SITE } from './booths'
-import { DEFAULT_MQTT_URL, startSimulator, type SimulatorOptions } from './publisher'
+import { DEFAULT_MQTT_URL, startSimulator, type LogLevel, type SimulatorOptions } from './publisher'
 import { SLUG_PATTERN } from './wire'
 
 export const DEFAULT_FAULT_FRACTION = 0.02
@@ -157,9 +157,13 @@ export async function main(argv: readonly string[]): Promise<number> {
   const out = (line: string): void => {
     process.stdout.write(`${line}\n`)
   }
+  const log = (line: string, level: LogLevel): void => {
+    if (level === 'warn') process.stderr.write(`${line}\n`)
+    else if (level === 'result' || !cli.quiet) out(line)
+  }
   const sim = startSimulator({
     ...cli.sim,
-    log: cli.quiet ? (line) => (line.includes('stopped') || line.includes('failed') ? out(line) : undefined) : out,
+    log,
     summaryIntervalMs: cli.quiet ? 0 : cli.summarySeconds * 1000,
   })
 

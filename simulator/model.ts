@@ -162,7 +162,7 @@ export function rhFromVapour(vapourHpa: number, tempC: number): number {
   return Math.min(100, Math.max(0, rh))
 }
 
-const SUBSTEP_MAX_S = 5
+const SUBSTEP_MAX_S = 10
 const SUBSTEPS_MAX = 5000
 /** Random-walk parameters of the intake RH: stationary standard deviation (points) and reversion time (s). */
 const RH_WALK_SD = 2.5

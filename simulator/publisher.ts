@@ -46,8 +46,11 @@ export interface SimulatorOptions {
   startMs?: number
   /** MQTT protocol version. Default 4 (3.1.1; the embedded broker speaks 3.1.1 only). */
   protocolVersion?: 4 | 5
-  /** Log sink for the start lines, the periodic summary and connection changes. Default: silent. */
-  log?: (line: string) => void
+  /**
+   * Log sink. Levels: `info` start lines, summaries, reconnects; `warn` connection and publish problems;
+   * `result` the final line of stop(). Default: silent.
+   */
+  log?: (line: string, level: LogLevel) => void
   /** Summary period, ms; 0 turns it off. Default 10 000 when `log` is given. */
   summaryIntervalMs?: number
   /** How long stop() waits for outstanding acknowledgements, ms. Default 5000. */
@@ -57,6 +60,8 @@ export interface SimulatorOptions {
   /** Extra model options applied to every booth (tests). */
   model?: Partial<Omit<BoothModelOptions, 'booth' | 'seed' | 'speed' | 'startMs' | 'faults'>>
 }
+
+export type LogLevel = 'info' | 'warn' | 'result'
 
 export interface BoothInfo {
   booth: string
@@ -164,6 +169,7 @@ export function startSimulator(options: SimulatorOptions = {}): SimulatorHandle 
   const startedAtMs = options.startMs ?? Date.now()
   const seed: SeedInput = options.seed ?? hashSeed(startedAtMs)
   const log = options.log ?? ((): void => {})
+  const logInfo = (line: string): void => log(line, 'info')
   const drainTimeoutMs = options.drainTimeoutMs ?? 5000
   const maxPending = options.maxPendingPerBooth ?? 100_000
   const summaryIntervalMs = options.summaryIntervalMs ?? (options.log ? 10_000 : 0)
@@ -188,7 +194,7 @@ export function startSimulator(options: SimulatorOptions = {}): SimulatorHandle 
     if (last !== undefined && now - last < 30_000) return
     if (runner.logged.size > 100) runner.logged.clear()
     runner.logged.set(message, now)
-    log(`[sim] ${runner.info.deviceId}: ${message}`)
+    log(`[sim] ${runner.info.deviceId}: ${message}`, 'warn')
   }
 
   function track(runner: BoothRunner, promise: Promise<unknown>, onAck?: () => void): void {
@@ -305,7 +311,7 @@ export function startSimulator(options: SimulatorOptions = {}): SimulatorHandle 
     }
     client.on('connect', () => {
       if (runner.connectedOnce) {
-        log(`[sim] ${deviceId}: reconnected`)
+        logInfo(`[sim] ${deviceId}: reconnected`)
         // The last will may have marked the booth offline meanwhile.
         if (!stopped) publish(runner, topics.status, STATUS_ONLINE, true)
       }
@@ -320,14 +326,14 @@ export function startSimulator(options: SimulatorOptions = {}): SimulatorHandle 
     // Presence and the current mode go out first (queued until the connection is up).
     publish(runner, topics.status, STATUS_ONLINE, true)
     publish(runner, topics.mode, modePayload(model.mode, startedAtMs + model.skewMs), true)
-    log(
+    logInfo(
       `[sim] ${spec.booth.padEnd(14)} ${spec.kind.padEnd(9)} device ${deviceId.padEnd(24)} ` +
         `topic ${topics.reading}  skew ${formatSkew(model.skewMs)}  mode ${model.mode}`,
     )
     schedule(runner)
   })
 
-  log(
+  logInfo(
     `[sim] ${runners.length} booth(s) → ${url}  site ${site}  seed ${String(seed)}  speed ×${speed}  ` +
       `${rateHz} Hz${faults > 0 ? `  faults ${(faults * 100).toFixed(1)} %` : ''}${count !== undefined ? `  count ${count}` : ''}` +
       (password === undefined || password === '' ? '  (no password: set DEMO_DEVICE_PASSWORD or --password)' : ''),
@@ -388,7 +394,7 @@ export function startSimulator(options: SimulatorOptions = {}): SimulatorHandle 
         return `${b.booth} ${b.mode} ${air} ${rh}`
       })
       const more = s.booths.length > shown.length ? ` | +${s.booths.length - shown.length} more` : ''
-      log(`${head} | ${shown.join(' | ')}${more}`)
+      logInfo(`${head} | ${shown.join(' | ')}${more}`)
     }, summaryIntervalMs)
   }
 
@@ -423,7 +429,11 @@ export function startSimulator(options: SimulatorOptions = {}): SimulatorHandle 
     }
     stopping = Promise.all(runners.map(stopRunner)).then(() => {
       const t = stats().totals
-      log(`[sim] stopped: sent ${t.generated}, acked ${t.acked}, faults ${t.faults}, failed ${t.failed}`)
+      log(
+        `[sim] stopped: sent ${t.generated}, acked ${t.acked}, pending ${t.pending}, failed ${t.failed}, ` +
+          `faults ${t.faults}, gaps ${t.gaps}`,
+        'result',
+      )
       resolveDone()
     })
     return stopping

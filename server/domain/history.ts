@@ -14,7 +14,8 @@ export type Resolution = 'raw' | 'raw-buckets' | 'minute-buckets'
 export function chooseResolution(rangeMs: number): { resolution: Resolution; bucketSec: number } {
   const bucketSec = Math.ceil(rangeMs / 1000 / MAX_POINTS)
   if (bucketSec <= 1) return { resolution: 'raw', bucketSec: 1 }
-  if (bucketSec < 60) return { resolution: 'raw-buckets', bucketSec }
+  // From ~17 h up (20 s buckets), whole-minute rollups still keep the budget and read 60× fewer rows.
+  if (bucketSec < 20) return { resolution: 'raw-buckets', bucketSec }
   return { resolution: 'minute-buckets', bucketSec: Math.ceil(bucketSec / 60) * 60 }
 }
 

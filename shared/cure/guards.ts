@@ -7,7 +7,7 @@ export function isFiniteNumber(x: unknown): x is number {
 /** An optional numeric field: undefined → fallback; otherwise it must be finite and pass `ok`, else NaN. */
 export function optionalNumber(x: unknown, fallback: number, ok: (v: number) => boolean): number {
   if (x === undefined) return fallback
-  return isFiniteNumber(x) && ok(x) ? x : Number.NaN
+  return isFiniteNumber(x) && typeof ok === 'function' && ok(x) === true ? x : Number.NaN
 }
 
 /** A non-null, non-array object whose fields may be read. */

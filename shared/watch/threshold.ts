@@ -25,7 +25,7 @@ export interface ThresholdState {
   side: ThresholdSide | null
   /** Non-null exactly when the alert is open. */
   openedAt: number | null
-  /** While open: the worst value so far (highest for 'high', lowest for 'low'). */
+  /** Worst value since the excursion began, pending or open (highest for 'high', lowest for 'low'). */
   peak: number | null
 }
 
@@ -61,6 +61,11 @@ function nonNegative(v: number): number {
   return Number.isFinite(v) && v > 0 ? v : 0
 }
 
+function worst(side: ThresholdSide, prev: number | null, value: number): number {
+  if (prev === null) return value
+  return side === 'high' ? Math.max(prev, value) : Math.min(prev, value)
+}
+
 /** Which side of the band the value is on (on the limit counts as inside), or null when inside. */
 function outside(low: number | null, high: number | null, value: number): ThresholdSide | null {
   if (high !== null && value > high) return 'high'
@@ -82,20 +87,22 @@ export function stepThreshold(
     const side = outside(low, high, value)
     if (side === null) return { state: state.pendingSince === null ? state : createThresholdState() }
     // A switch from one side to the other starts a new excursion.
-    const since = state.pendingSince !== null && state.side === side ? state.pendingSince : t
+    const same = state.pendingSince !== null && state.side === side
+    const since = same ? (state.pendingSince ?? t) : t
+    const peak = worst(side, same ? state.peak : null, value)
     if (t - since >= nonNegative(rule.openAfterMs)) {
       const limit = side === 'high' ? high : low
       return {
-        state: { pendingSince: null, side, openedAt: t, peak: value },
-        event: { type: 'open', at: t, value, limit, peak: value, side, since },
+        state: { pendingSince: null, side, openedAt: t, peak },
+        event: { type: 'open', at: t, value, limit, peak, side, since },
       }
     }
-    return { state: since === state.pendingSince ? state : { pendingSince: since, side, openedAt: null, peak: null } }
+    if (same && peak === state.peak) return { state }
+    return { state: { pendingSince: since, side, openedAt: null, peak } }
   }
 
   const side: ThresholdSide = state.side ?? 'high'
-  const prevPeak = state.peak ?? value
-  const peak = side === 'high' ? Math.max(prevPeak, value) : Math.min(prevPeak, value)
+  const peak = worst(side, state.peak, value)
   // Hysteresis is capped at half the band so the clear band [low + hy, high − hy] is never empty.
   let hy = nonNegative(rule.hysteresis)
   if (low !== null && high !== null) hy = Math.min(hy, Math.max(0, (high - low) / 2))

@@ -1,0 +1,32 @@
+import { spawnSync } from 'node:child_process'
+import { existsSync, readdirSync, statSync } from 'node:fs'
+import { join } from 'node:path'
+
+const SOURCES = ['app.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'pages', 'components', 'layouts', 'stores', 'composables', 'middleware', 'server', 'shared', 'assets', 'public', 'package-lock.json']
+export const SERVER_ENTRY = '.output/server/index.mjs'
+
+function newest(path: string): number {
+  if (!existsSync(path)) return 0
+  const st = statSync(path)
+  if (!st.isDirectory()) return st.mtimeMs
+  let max = st.mtimeMs
+  for (const e of readdirSync(path)) max = Math.max(max, newest(join(path, e)))
+  return max
+}
+
+/** Builds the app when the build is missing or older than any source file. */
+export function ensureBuilt(force = false): void {
+  const built = existsSync(SERVER_ENTRY) ? statSync(SERVER_ENTRY).mtimeMs : 0
+  const sources = Math.max(...SOURCES.map(newest))
+  if (!force && built > sources) {
+    console.log('[build] up to date')
+    return
+  }
+  console.log('[build] nuxt build …')
+  const r = spawnSync('npx', ['nuxt', 'build'], { stdio: ['ignore', 'pipe', 'inherit'], encoding: 'utf8' })
+  if (r.status !== 0) {
+    console.log(r.stdout)
+    throw new Error('nuxt build failed')
+  }
+  console.log('[build] done')
+}

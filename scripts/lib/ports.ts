@@ -1,0 +1,31 @@
+import { createServer } from 'node:net'
+
+/** A free TCP port on 127.0.0.1 (the OS picks it). */
+export function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const srv = createServer()
+    srv.once('error', reject)
+    srv.listen(0, '127.0.0.1', () => {
+      const addr = srv.address()
+      const port = typeof addr === 'object' && addr ? addr.port : 0
+      srv.close(() => resolve(port))
+    })
+  })
+}
+
+/** Polls a URL until it answers with one of `ok` statuses, or throws after `timeoutMs`. */
+export async function waitForHttp(url: string, timeoutMs = 60_000, ok: number[] = [200]): Promise<Response> {
+  const until = Date.now() + timeoutMs
+  let last = ''
+  while (Date.now() < until) {
+    try {
+      const res = await fetch(url)
+      if (ok.includes(res.status)) return res
+      last = `HTTP ${res.status}: ${(await res.text()).slice(0, 300)}`
+    } catch (e) {
+      last = e instanceof Error ? e.message : String(e)
+    }
+    await new Promise((r) => setTimeout(r, 250))
+  }
+  throw new Error(`${url} did not become ready in ${timeoutMs} ms (${last})`)
+}
