@@ -26,6 +26,21 @@ const Settings = z.object({
   DEMO_PASSWORD: z.string().optional(),
   DEMO_DEVICE_PASSWORD: z.string().optional(),
   MAILBOX_PAGE: z.string().optional(),
+  // Alerts and their e-mails (server/alerts, server/mail). The local SMTP sink stores messages in MAILBOX_DIR.
+  MAILBOX_DIR: z.string().default('var/mailbox'),
+  ALERT_ESCALATE_AFTER_SEC: z.coerce.number().min(1).default(900),
+  ALERT_ESCALATE_MAX: z.coerce.number().int().min(0).max(100).default(3),
+  ALERT_RATE_LIMIT_SEC: z.coerce.number().min(0).default(600),
+  ALERT_DIGEST_AFTER: z.coerce.number().int().min(1).default(3),
+  ALERT_DIGEST_WINDOW_SEC: z.coerce.number().min(1).default(60),
+  ALERT_QUIET_HOURS: z
+    .string()
+    .regex(/^$|^([01]\d|2[0-3]):[0-5]\d-([01]\d|2[0-3]):[0-5]\d$/, 'ALERT_QUIET_HOURS is HH:MM-HH:MM (e.g. 22:00-06:00) or empty')
+    .default(''),
+  ALERT_TIME_ZONE: z.string().optional(),
+  OUTBOX_RETRY_BASE_SEC: z.coerce.number().min(0.1).default(5),
+  OUTBOX_RETRY_MAX_SEC: z.coerce.number().min(0.1).default(900),
+  OUTBOX_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(30),
 })
 
 export type ServerSettings = z.infer<typeof Settings>

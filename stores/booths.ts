@@ -57,6 +57,31 @@ export interface LiveHeartbeat {
   stale: number[]
 }
 
+export const HISTORY_CHANNELS = [
+  'airTempC',
+  'rhPct',
+  'panelTempC',
+  'airflowMps',
+  'boothDpPa',
+  'intakeFilterDpPa',
+  'exhaustFilterDpPa',
+  'dewPointC',
+  'dewPointMarginC',
+] as const
+export type HistoryChannel = (typeof HISTORY_CHANNELS)[number]
+
+/** GET /api/booths/:id/readings */
+export interface BoothHistory {
+  boothId: number
+  from: string
+  to: string
+  resolution: 'raw' | 'raw-buckets' | 'minute-buckets'
+  bucketSeconds: number
+  count: number
+  t: string[]
+  series: Partial<Record<HistoryChannel, (number | null)[]>>
+}
+
 const MODES: readonly string[] = ['idle', 'spray', 'flash', 'bake', 'cool']
 const asMode = (m: unknown): BoothMode | null => (typeof m === 'string' && MODES.includes(m) ? (m as BoothMode) : null)
 const asStatus = (s: unknown): DeviceStatus | null => (s === 'online' || s === 'offline' ? s : null)
@@ -134,11 +159,17 @@ export const useBoothsStore = defineStore('booths', () => {
     updatedAt.value[b.id] = Date.now()
   }
 
-  function applyHeartbeat(hb: LiveHeartbeat) {
+  /** Heartbeat: `stale` lists the stale booths among those the stream covers (`scope`: all when left out). */
+  function applyHeartbeat(hb: LiveHeartbeat, scope?: number[]) {
     if (!hb || !Array.isArray(hb.stale)) return
     noteServerTime(hb.serverTime)
     const stale = new Set(hb.stale)
-    for (const b of booths.value) b.stale = stale.has(b.id)
+    for (const b of booths.value) if (!scope || scope.includes(b.id)) b.stale = stale.has(b.id)
+  }
+
+  /** GET /api/booths/:id/readings for a range (≤ 3000 points per channel, SI units). */
+  function fetchHistory(id: number, from: Date, to: Date): Promise<BoothHistory> {
+    return request<BoothHistory>(`/api/booths/${id}/readings`, { query: { from: from.toISOString(), to: to.toISOString() } })
   }
 
   // One all-booths stream for the app, held open while any component retains it.
@@ -184,6 +215,7 @@ export const useBoothsStore = defineStore('booths', () => {
     ensureLoaded,
     applyLive,
     applyHeartbeat,
+    fetchHistory,
     retain,
     release,
     clear,

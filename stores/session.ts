@@ -114,6 +114,11 @@ export const useSessionStore = defineStore('session', () => {
     unitCookie.value = normaliseUnits({ ...units.value, ...change })
   }
 
+  /** Forgets the choice made on this device: the account's preferences (or the defaults) apply again. */
+  function clearDeviceUnits() {
+    unitCookie.value = null
+  }
+
   /** SI value → text in this user's units, e.g. "21.4 °C"; "—" when missing. */
   function format(q: Quantity, si: number | null | undefined, o?: FormatOptions): string {
     return formatQuantity(q, si, units.value, o)
@@ -145,6 +150,7 @@ export const useSessionStore = defineStore('session', () => {
     logout,
     changePassword,
     setUnits,
+    clearDeviceUnits,
     format,
     symbol,
     convert,

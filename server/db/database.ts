@@ -1,5 +1,11 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely'
 import type { RollupChannel } from './channels'
+import type { AlertTables } from './tables/alerts'
+import type { BakeTables } from './tables/bakes'
+import type { EventLogTables } from './tables/event-log'
+import type { EvidenceTables } from './tables/evidence'
+import type { JobTables } from './tables/jobs'
+import type { SpecTables } from './tables/specs'
 
 // The one typed view of the schema. Each table's row types come from here (Selectable / Insertable /
 // Updateable); migrations in ./migrations are the source of truth for the DDL.
@@ -121,7 +127,8 @@ export interface RejectedCountsTable {
   last_at: Timestamp
 }
 
-export interface Database {
+// Each area keeps its tables in ./tables/<area>.ts; they all meet here.
+export interface Database extends SpecTables, JobTables, AlertTables, BakeTables, EvidenceTables, EventLogTables {
   users: UsersTable
   sites: SitesTable
   booths: BoothsTable

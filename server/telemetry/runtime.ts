@@ -16,12 +16,16 @@ import type { ReadingRow } from './reading-row'
 import { RejectRecorder } from './rejects'
 import { startSubscriber, type Subscriber } from './subscriber'
 import { ReadingWriter } from './writer'
+import type { BoothModeValue } from './wire'
 import { loadLatestStates } from './latest'
 
 // Wires broker, subscriber, pipeline, writer and live hub together for one app process.
 
 export interface TelemetryHooks {
+  /** Per accepted reading, on the hot path: O(1), never throws, never awaits. */
   onAccepted?(row: ReadingRow, booth: BoothEntry): void
+  /** The booth controller reported a mode (…/mode topic). */
+  onMode?(boothId: number, mode: BoothModeValue, tsMs: number): void
 }
 
 export interface Telemetry {
@@ -42,15 +46,22 @@ export interface Telemetry {
 }
 
 let current: Telemetry | undefined
-let hooks: TelemetryHooks = {}
+const hookSets: TelemetryHooks[] = []
 
 export function telemetry(): Telemetry | undefined {
   return current
 }
 
-/** Registers extra per-reading work (watches), set before or after start. */
-export function setTelemetryHooks(h: TelemetryHooks): void {
-  hooks = h
+/**
+ * Registers extra per-reading work (watches, bake detection), before or after start. Each call adds
+ * one set; all sets run, in registration order. Returns the function that removes it.
+ */
+export function setTelemetryHooks(h: TelemetryHooks): () => void {
+  hookSets.push(h)
+  return () => {
+    const i = hookSets.indexOf(h)
+    if (i >= 0) hookSets.splice(i, 1)
+  }
 }
 
 const HOUR = 3_600_000
@@ -84,8 +95,11 @@ export async function startTelemetry(db: Kysely<Database>, pool: pg.Pool, s: Ser
     rejects,
     {
       store: (row) => writer.add(row),
-      onAccepted: (row, booth) => hooks.onAccepted?.(row, booth),
+      onAccepted: (row, booth) => {
+        for (const h of hookSets) h.onAccepted?.(row, booth)
+      },
       onMode: (boothId, mode, tsMs) => {
+        for (const h of hookSets) h.onMode?.(boothId, mode, tsMs)
         db.insertInto('booth_modes')
           .values({ booth_id: boothId, ts: new Date(tsMs), mode })
           .onConflict((oc) => oc.doNothing())
@@ -163,6 +177,7 @@ export async function startTelemetry(db: Kysely<Database>, pool: pg.Pool, s: Ser
     password,
     clientId: s.MQTT_CLIENT_ID ?? `boothbeat-app-${hostname()}-${process.env.PORT ?? '3000'}`,
     protocolVersion: broker ? 4 : 5,
+    storageQos: broker ? 0 : 1,
     sharedGroup: s.MQTT_URL ? s.MQTT_SHARED_GROUP : undefined,
     onReading: (topic, payload, route) => pipeline.handleReading(topic, payload, route),
     onControl: (topic, payload) => pipeline.handleControl(topic, payload),

@@ -12,6 +12,13 @@ export interface SubscriberOptions {
   clientId: string
   protocolVersion: 4 | 5
   sharedGroup?: string
+  /**
+   * QoS of the storage subscription: 1 against an external broker (it keeps our session while we
+   * restart). Against the embedded broker, which lives and dies with this process, the device's
+   * QoS 1 PUBACK already means "held in this process's memory"; a second QoS 1 hop over loopback to
+   * ourselves adds no durability and halves ingest throughput, so 0 is used there.
+   */
+  storageQos: 0 | 1
   onReading(topic: string, payload: Buffer, route: { store: boolean; live: boolean }): void
   onControl(topic: string, payload: Buffer): void
   onState(up: boolean, detail?: string): void
@@ -60,7 +67,7 @@ function connect(o: SubscriberOptions, clientId: string, persistent: boolean, to
 export function startSubscriber(o: SubscriberOptions): Subscriber {
   const clients: MqttClient[] = []
   const storageTopic = o.sharedGroup ? `$share/${o.sharedGroup}/${READINGS}` : READINGS
-  const main = connect(o, o.clientId, true, { [storageTopic]: { qos: 1 }, [MODES]: { qos: 1 }, [STATUS]: { qos: 1 } }, 'subscriber')
+  const main = connect(o, o.clientId, true, { [storageTopic]: { qos: o.storageQos }, [MODES]: { qos: 1 }, [STATUS]: { qos: 1 } }, 'subscriber')
   main.on('message', (topic, payload) => {
     if (topic.endsWith('/reading')) o.onReading(topic, payload, { store: true, live: !o.sharedGroup })
     else o.onControl(topic, payload)

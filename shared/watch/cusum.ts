@@ -7,12 +7,12 @@
 // are in σ units. σ is the standard deviation of what is fed in — for subgroup means, of the means (see subgroup.ts).
 //
 // k = 0.5 is the usual choice: it tunes the chart to detect a shift of 2k = 1σ fastest.
-// h = 5 rather than 4: for a two-sided chart with k = 0.5 the in-control average run length (subgroups between
-// false alarms) is about 465 at h = 5 against about 168 at h = 4, while a 1σ shift is still caught in about 10
-// subgroups instead of about 8 (published ARL tables for the tabular CUSUM, e.g. Montgomery, "Introduction to
-// Statistical Quality Control"; figures quoted from memory and rounded). With 1-minute subgroups that is one false
-// alarm per ≈ 7.75 h of watched booth time instead of ≈ 2.8 h: a humidity drift is never urgent to the minute, and
-// painters stop reading alerts that cry wolf.
+// h = 5 rather than 4: with k = 0.5 the in-control average run length (subgroups between false alarms) of one side
+// is about 930 at h = 5 against about 336 at h = 4 (ARL table in the same handbook, 6.3.2.3.1), so about 465 against
+// 168 for the two-sided chart, while a 1σ shift is still caught in about 10 subgroups instead of about 8. (Figures
+// recalled from the published tables and rounded.) With 1-minute subgroups that is one false alarm per ≈ 7.75 h of
+// watched booth time instead of ≈ 2.8 h: a humidity drift is never urgent to the minute, and painters stop reading
+// alerts that cry wolf.
 //
 // Alert life cycle: opens when a sum first exceeds hσ (side 'high' or 'low'); the sums keep accumulating while open
 // (as in the handbook's table); clears when the open side's sum falls to clearFraction·hσ (default 0: back to zero),

@@ -36,9 +36,12 @@ export interface WatchEvent {
   kind: WatchKind
   type: 'open' | 'clear'
   at: number
-  /** In the channel's unit (silence: milliseconds). Null when the event was not caused by a value. */
+  /** In the channel's unit (silence: milliseconds). Null when the event was not caused by a value (a rule that
+   * stopped applying, a bake that ended, a bake with no temperature data). */
   value: number | null
+  /** The limit crossed; for rh_cusum the target μ0, for sensor_silence silentAfterMs, for a bake its target. */
   limit: number | null
+  /** Worst value of the excursion (silence: the gap; rh_cusum: the most extreme subgroup mean). */
   peak: number | null
   message: string
 }
@@ -74,8 +77,8 @@ export interface BoothEvaluatorOptions {
 
 type Emit = (e: Omit<WatchEvent, 'ruleId' | 'kind'>) => void
 
-// One rule bound to its engine. `active` and the mode hooks see the current mode; unknown mode (null) makes every
-// mode-bound rule inactive, so a booth that never reports its mode raises no spray-only alerts.
+// One rule bound to its engine. Every hook sees the current mode; an unknown mode (null) makes every mode-bound
+// rule inactive, so a booth that never reports its mode raises no spray-only alerts.
 interface Watch {
   readonly rule: WatchRule
   modeChanged(prev: BoothMode | null, next: BoothMode | null, t: number): void
@@ -161,7 +164,7 @@ function thresholdWatch(
       relay(step.event, mode)
     },
     tick() {},
-    save: () => ({ engine: 'threshold', threshold: s }),
+    save: () => ({ engine: 'threshold', threshold: { ...s } }),
     load(v) {
       s = loadThreshold(stateOf(v, 'threshold')?.threshold) ?? createThresholdState()
     },
@@ -194,7 +197,7 @@ function silenceWatch(
       s = step.state
       relay(step.event)
     },
-    save: () => ({ engine: 'silence', silence: s }),
+    save: () => ({ engine: 'silence', silence: { ...s } }),
     load(v) {
       s = loadSilence(stateOf(v, 'silence')?.silence) ?? createSilenceState(startMs)
     },
@@ -228,7 +231,7 @@ function bakeWatch(rule: WatchRule, emit: Emit, channel: WatchChannel, params: B
       s = step.state
       relay(step.event)
     },
-    save: () => ({ engine: 'bake', bake: s }),
+    save: () => ({ engine: 'bake', bake: { ...s } }),
     load(v) {
       s = loadBake(stateOf(v, 'bake')?.bake) ?? createBakeState()
     },
@@ -284,7 +287,7 @@ function cusumWatch(
       g = step.state
       feed(step.closed)
     },
-    save: () => ({ engine: 'cusum', cusum: s, subgroup: g }),
+    save: () => ({ engine: 'cusum', cusum: { ...s }, subgroup: { ...g } }),
     load(v) {
       const o = stateOf(v, 'cusum')
       const cs = loadCusum(o?.cusum)

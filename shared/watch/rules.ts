@@ -5,7 +5,7 @@
 // Parsing a minimal rule ({ id, kind } plus a channel where there is a choice) fills in these defaults.
 
 import { z } from 'zod'
-import { BOOTH_MODES, WATCH_CHANNELS } from './reading'
+import { BOOTH_MODES, WATCH_CHANNELS, type BoothMode } from './reading'
 
 const SECOND = 1000
 const MINUTE = 60 * SECOND
@@ -58,11 +58,11 @@ export const WATCH_DEFAULTS = {
 export const DEFAULT_ACTIVE_WHEN = {
   paint: ['spray', 'flash'],
   fansOn: ['spray', 'flash', 'bake', 'cool'],
-} as const satisfies Record<string, readonly (typeof BOOTH_MODES)[number][]>
+} as const satisfies Record<string, readonly BoothMode[]>
 
 const ModeSchema = z.enum(BOOTH_MODES, { error: `Choose booth modes from: ${BOOTH_MODES.join(', ')}` })
 
-const activeWhen = (fallback: readonly (typeof BOOTH_MODES)[number][]) =>
+const activeWhen = (fallback: readonly BoothMode[]) =>
   z
     .array(ModeSchema, { error: 'activeWhen is a list of booth modes' })
     .min(1, 'activeWhen needs at least one booth mode (remove the rule to switch it off)')

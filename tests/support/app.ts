@@ -41,8 +41,7 @@ function databaseUrlFor(adminUrl: string, name: string): string {
 }
 
 /** A fresh database for one test file. */
-export async function createTestDatabase(prefix = 'bb'): Promise<{ url: string; name: string; drop(): Promise<void> }> {
-  const adminUrl = inject('pgAdminUrl')
+export async function createTestDatabase(prefix = 'bb', adminUrl = inject('pgAdminUrl')): Promise<{ url: string; name: string; drop(): Promise<void> }> {
   const name = `${prefix}_${Date.now().toString(36)}_${Math.random().toString(36).slice(2, 8)}`
   const admin = new pg.Client({ connectionString: adminUrl })
   await admin.connect()
@@ -65,8 +64,11 @@ export async function createTestDatabase(prefix = 'bb'): Promise<{ url: string; 
  * with the demo seed, and waits until /api/health answers 200 (or until the database is up when
  * `waitFor` says so).
  */
-export async function startTestApp(extraEnv: Record<string, string> = {}, opts: { waitFor?: 'healthy' | 'http' } = {}): Promise<TestApp> {
-  const database = await createTestDatabase()
+export async function startTestApp(
+  extraEnv: Record<string, string> = {},
+  opts: { waitFor?: 'healthy' | 'http'; adminUrl?: string } = {},
+): Promise<TestApp> {
+  const database = await createTestDatabase('bb', opts.adminUrl)
   const port = await freePort()
   const mqttPort = await freePort()
   const dir = mkdtempSync(join(tmpdir(), 'boothbeat-test-'))

@@ -183,7 +183,7 @@ describe('properties', () => {
     )
   })
 
-  it('without reset or cap, S_hi(n) = max(0, max over j of Σ_{i=j..n}(x_i − μ0 − kσ)) (Page\'s form)', () => {
+  it('without reset or cap, S_hi(n) = max(0, max over j of Σ_{i=j..n}(x_i − μ0 − kσ)) (max-of-tail-sums form)', () => {
     // An independent characterisation of the recursion; kept below h so no clear resets the sums.
     fc.assert(
       fc.property(fc.array(fc.double({ min: -3, max: 3, noNaN: true }), { maxLength: 60 }), (data) => {
