@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process'
-import { existsSync, readdirSync, statSync } from 'node:fs'
+import { existsSync, mkdirSync, readdirSync, statSync } from 'node:fs'
 import { join } from 'node:path'
 
 const SOURCES = ['app.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'pages', 'components', 'layouts', 'stores', 'composables', 'middleware', 'server', 'shared', 'assets', 'public', 'package-lock.json']
@@ -14,8 +14,24 @@ function newest(path: string): number {
   return max
 }
 
-/** Builds the app when the build is missing or older than any source file. */
+/**
+ * Builds the app when the build is missing or older than any source file. Under an exclusive lock
+ * (flock on .data/build.lock) so parallel test runs in one checkout never build over each other.
+ */
 export function ensureBuilt(force = false): void {
+  if (!process.env.BOOTHBEAT_BUILD_LOCKED) {
+    mkdirSync('.data', { recursive: true })
+    const r = spawnSync('flock', ['-x', '.data/build.lock', process.execPath, '--import', 'tsx', 'scripts/lib/build-cli.ts', ...(force ? ['--force'] : [])], {
+      stdio: 'inherit',
+      env: { ...process.env, BOOTHBEAT_BUILD_LOCKED: '1' },
+    })
+    if (r.status !== 0) throw new Error('nuxt build failed')
+    return
+  }
+  buildIfStale(force)
+}
+
+function buildIfStale(force: boolean): void {
   const built = existsSync(SERVER_ENTRY) ? statSync(SERVER_ENTRY).mtimeMs : 0
   const sources = Math.max(...SOURCES.map(newest))
   if (!force && built > sources) {

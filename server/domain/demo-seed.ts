@@ -2,6 +2,7 @@ import type { Kysely } from 'kysely'
 import type { BoothKind, Database, Role } from '../db/database'
 import type { ServerSettings } from '../config'
 import type { Hasher } from './accounts'
+import { seedDemoSpecs } from './demo-specs'
 
 // The invented demo shop (DESIGN.md §10). Everything here is made up for the demo.
 export const DEMO_SITE = { slug: 'larkspur', name: 'Larkspur Collision & Refinish', time_zone: 'UTC' }
@@ -48,6 +49,7 @@ export async function seedDemo(db: Kysely<Database>, hasher: Hasher, s: ServerSe
         .onConflict((oc) => oc.column('email').doNothing())
         .execute()
     }
+    await seedDemoSpecs(tx)
   })
   console.log('[seed] demo shop created')
 }

@@ -2,6 +2,7 @@ import type { Kysely } from 'kysely'
 import { dewPointMarginC } from '#shared/cure/psychrometrics'
 import type { Database } from '../db/database'
 import { bucketedRawSeries, rawSeries, rollupSeries, SERIES_CHANNELS, type SeriesPoint } from '../repositories/readings'
+import { calibrateSeriesPoints } from './calibration'
 
 // History for charts: raw rows for short ranges, buckets for longer ones, so an answer carries at
 // most MAX_POINTS points per channel whatever the range.
@@ -41,6 +42,8 @@ export async function boothHistory(db: Kysely<Database>, boothId: number, from: 
     const step = points.length / MAX_POINTS
     points = Array.from({ length: MAX_POINTS }, (_, i) => points[Math.floor(i * step)]!)
   }
+  // Sensor calibration offsets apply at read time, from their effective time on; stored rows stay raw.
+  points = await calibrateSeriesPoints(db, boothId, points)
   const series: Record<string, (number | null)[]> = {}
   for (const c of SERIES_CHANNELS) series[CAMEL[c]] = points.map((p) => p.values[c])
   series.dewPointMarginC = points.map((p) => {

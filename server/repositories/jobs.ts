@@ -1,6 +1,8 @@
 import type { Kysely } from 'kysely'
 import type { Database } from '../db/database'
 import type { Job, JobStatus, JobStep, NewJob } from '../db/tables/jobs'
+import type { ProductEngineFields, SpecRevisionFields } from '#shared/schemas/spec'
+import { columnsToFields } from './specs'
 
 type Db = Kysely<Database>
 
@@ -102,4 +104,77 @@ export async function replaceSteps(db: Db, jobId: number, steps: (StepValues & {
 /** The jobs a booth may be working on (not done), oldest first. */
 export function listOpenJobsOfBooth(db: Db, boothId: number): Promise<Job[]> {
   return db.selectFrom('jobs').selectAll().where('booth_id', '=', boothId).where('status', '!=', 'done').orderBy('created_at').orderBy('id').execute()
+}
+
+/** A booth with its site's display units (the booth screen shows the shop's units). */
+export function boothWithUnits(db: Db, boothId: number) {
+  return db
+    .selectFrom('booths')
+    .innerJoin('sites', 'sites.id', 'booths.site_id')
+    .select(['booths.id', 'booths.name', 'booths.kind', 'booths.has_heater', 'sites.units'])
+    .where('booths.id', '=', boothId)
+    .executeTakeFirst()
+}
+
+// ── spec revisions, as job steps, coats and mixes use them (read only) ─────────────────────────
+
+export interface RevisionRow {
+  id: number
+  number: number
+  productId: number
+  productName: string
+  category: string
+  product: ProductEngineFields
+  fields: SpecRevisionFields
+  frozen: boolean
+}
+
+function revisionsWithProduct(db: Db) {
+  return db
+    .selectFrom('spec_revisions as r')
+    .innerJoin('products as p', 'p.id', 'r.product_id')
+    .selectAll('r')
+    .select(['p.name as product_name', 'p.category as product_category', 'p.chemistry as product_chemistry', 'p.components as product_components'])
+}
+
+type RevisionJoin = Awaited<ReturnType<ReturnType<typeof revisionsWithProduct>['executeTakeFirstOrThrow']>>
+
+function toRevisionRow(r: RevisionJoin): RevisionRow {
+  return {
+    id: r.id,
+    number: r.number,
+    productId: r.product_id,
+    productName: r.product_name,
+    category: r.product_category,
+    product: { chemistry: r.product_chemistry, components: Number(r.product_components) === 2 ? 2 : 1 },
+    fields: columnsToFields(r),
+    frozen: r.frozen_at !== null,
+  }
+}
+
+/** Revisions with their product, in one query (a screen recomputes often). */
+export async function findRevisionsWithProduct(db: Db, ids: number[]): Promise<RevisionRow[]> {
+  if (!ids.length) return []
+  return (await revisionsWithProduct(db).where('r.id', 'in', ids).execute()).map(toRevisionRow)
+}
+
+/** Every revision with its product, products by name, newest revision first (the plan editor's choices). */
+export async function listRevisionChoices(db: Db): Promise<RevisionRow[]> {
+  return (await revisionsWithProduct(db).orderBy('p.name').orderBy('r.number', 'desc').execute()).map(toRevisionRow)
+}
+
+/** The newest revision of each named product (demo seed). */
+export async function latestRevisionIdsByProductName(db: Db, names: string[]): Promise<Map<string, number>> {
+  if (!names.length) return new Map()
+  const rows = await db
+    .selectFrom('spec_revisions as r')
+    .innerJoin('products as p', 'p.id', 'r.product_id')
+    .select(['p.name', 'r.id'])
+    .where('p.name', 'in', names)
+    .orderBy('p.name')
+    .orderBy('r.number', 'desc')
+    .execute()
+  const out = new Map<string, number>()
+  for (const r of rows) if (!out.has(r.name)) out.set(r.name, r.id)
+  return out
 }

@@ -1,6 +1,7 @@
 import { EventEmitter } from 'node:events'
 import { dewPointMarginC } from '#shared/cure/psychrometrics'
 import type { ReadingRow } from './reading-row'
+import { calibrateReadingRow } from '../domain/calibration'
 
 // Latest state per booth for screens, fanned out at most twice a second per booth (the last value
 // always arrives: a trailing update is scheduled when one is held back).
@@ -32,7 +33,9 @@ export interface LiveBoothState {
 
 const MIN_INTERVAL_MS = 500
 
-export function toLiveReading(r: ReadingRow): LiveReading {
+export function toLiveReading(raw: ReadingRow): LiveReading {
+  // Sensor calibration offsets apply at read time (server/domain/calibration.ts); the stored row stays raw.
+  const r = calibrateReadingRow(raw)
   const surface = r.panelTempC ?? r.airTempC
   const margin = surface !== null && r.dewPointC !== null ? dewPointMarginC(surface, r.dewPointC) : null
   return {

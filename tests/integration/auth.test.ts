@@ -163,3 +163,15 @@ describe('roles and accounts', () => {
     expect((await admin.patch(`/api/users/${me.id}`, { disabled: true })).status).toBe(400)
   })
 })
+
+describe('account changes in the event log', () => {
+  it('records user creation and role changes with the admin as actor', async () => {
+    const admin = await app.as('admin')
+    const created = await admin.post<{ user: { id: number } }>('/api/users', { email: 'logged@larkspur.example', name: 'Kit Logged', role: 'painter', password: 'temporary-pass-9' })
+    await admin.patch(`/api/users/${created.body.user.id}`, { role: 'tech' })
+    const events = await app.db.selectFrom('event_log').selectAll().where('subject_type', '=', 'user').where('subject_id', '=', String(created.body.user.id)).orderBy('seq').execute()
+    expect(events.map((e) => e.type)).toEqual(['user.created', 'user.role_changed'])
+    expect(events[1]!.actor_label).toMatch(/\(admin\)$/)
+    expect(JSON.parse(events[1]!.payload)).toMatchObject({ roleBefore: 'painter', roleAfter: 'tech' })
+  })
+})

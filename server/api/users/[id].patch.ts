@@ -1,6 +1,6 @@
 import { UpdateUserSchema } from '#shared/schemas/accounts'
-import { publicUser } from '../../domain/accounts'
-import { updateUser } from '../../repositories/users'
+import { changeAccount, publicUser } from '../../domain/accounts'
+import { actorOf } from '../../domain/event-log'
 
 export default defineEventHandler(async (event) => {
   const admin = await requireUser(event, ['admin'])
@@ -9,7 +9,6 @@ export default defineEventHandler(async (event) => {
   if (id === admin.id && (body.disabled || (body.role && body.role !== 'admin'))) {
     throw createError({ statusCode: 400, message: 'You cannot disable yourself or remove your own admin role' })
   }
-  const user = await updateUser(useDb(), id, body)
-  if (!user) throw createError({ statusCode: 404, message: 'No such account' })
+  const user = await changeAccount(useDb(), id, body, actorOf(admin)).catch(asHttpError)
   return { user: publicUser(user) }
 })

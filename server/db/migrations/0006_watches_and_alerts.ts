@@ -30,6 +30,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
       booth_id integer NOT NULL REFERENCES booths(id),
       rule_id text NOT NULL,
       kind text NOT NULL,
+      label text,
       severity text NOT NULL CHECK (severity IN ('critical', 'warning')),
       channel text,
       unit text,

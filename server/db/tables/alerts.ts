@@ -47,6 +47,8 @@ export interface AlertsTable {
   booth_id: number
   rule_id: string
   kind: string
+  /** The watch's own label when it opened, if it had one. */
+  label: string | null
   severity: AlertSeverity
   channel: string | null
   unit: string | null

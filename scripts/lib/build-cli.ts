@@ -1,0 +1,4 @@
+import { ensureBuilt } from './build'
+
+// Runs under the build lock (see ensureBuilt).
+ensureBuilt(process.argv.includes('--force'))

@@ -1,0 +1,10 @@
+// Pure parts of bake cycles and booth upkeep. See README.md in this folder.
+export * from './channels'
+export * from './inspection'
+export * from './onset'
+export * from './phases'
+export * from './reminders'
+export * from './safety'
+export * from './trend'
+export * from './types'
+export * from './verdict'
