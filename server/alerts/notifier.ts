@@ -34,6 +34,8 @@ export interface NotifierConfig {
   batch?: number
 }
 
+const toDate = (ms: number | null) => (ms === null ? null : new Date(ms))
+
 export function toMailAlert(r: AlertDetailRow): MailAlert {
   return {
     id: r.id,
@@ -137,7 +139,7 @@ export class Notifier {
           }
           const mail = renderAlertMail(toMailAlert(r), this.render(r))
           await enqueueMail(tx, { kind: 'alert', alertId: r.id, alertIds: [r.id], recipients: to, ...mail, now })
-          await setNotifyState(tx, [r.id], { state: 'sent', notifiedAt: now, nextEscalationAt: firstEscalationAt(nowMs, cfg) })
+          await setNotifyState(tx, [r.id], { state: 'sent', notifiedAt: now, nextEscalationAt: toDate(firstEscalationAt(nowMs, cfg)) })
           queued++
         } else if (d.action === 'defer') {
           await setNotifyState(tx, [r.id], { state: 'deferred', dueAt: new Date(d.until) })
@@ -189,7 +191,7 @@ export class Notifier {
     }
     const open = rows.filter((r) => r.state === 'open').map((r) => r.id)
     const others = rows.filter((r) => r.state !== 'open').map((r) => r.id)
-    await setNotifyState(tx, open, { state: 'sent', notifiedAt: now, nextEscalationAt: firstEscalationAt(nowMs, cfg) })
+    await setNotifyState(tx, open, { state: 'sent', notifiedAt: now, nextEscalationAt: toDate(firstEscalationAt(nowMs, cfg)) })
     await setNotifyState(tx, others, { state: 'sent', notifiedAt: now })
     return queued
   }

@@ -3,6 +3,7 @@ import type { BoothKind, Database, Role } from '../db/database'
 import type { ServerSettings } from '../config'
 import type { Hasher } from './accounts'
 import { seedDemoSpecs } from './demo-specs'
+import { seedDemoJobs } from './demo-jobs'
 
 // The invented demo shop (DESIGN.md §10). Everything here is made up for the demo.
 export const DEMO_SITE = { slug: 'larkspur', name: 'Larkspur Collision & Refinish', time_zone: 'UTC' }
@@ -50,6 +51,7 @@ export async function seedDemo(db: Kysely<Database>, hasher: Hasher, s: ServerSe
         .execute()
     }
     await seedDemoSpecs(tx)
+    await seedDemoJobs(tx, hasher)
   })
   console.log('[seed] demo shop created')
 }

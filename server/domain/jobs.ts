@@ -308,3 +308,16 @@ export async function jobDetail(db: Kysely<Database>, jobId: number) {
     boothBusy: openCoat && openCoat.job_id !== jobId ? { coatId: openCoat.id, jobId: openCoat.job_id } : null,
   }
 }
+
+/** What the job forms choose from: product revisions, painters, booths. */
+export async function planOptions(db: Kysely<Database>) {
+  const [revisions, users, booths] = await Promise.all([listRevisionChoices(db), listUsers(db), listBooths(db)])
+  return {
+    revisions: revisions.map((r) => revisionSummary(r)!),
+    painters: users
+      .filter((u) => !u.disabled_at && ACTOR_ROLES.includes(u.role))
+      .sort((a, b) => Number(b.role === 'painter') - Number(a.role === 'painter') || a.name.localeCompare(b.name))
+      .map((u) => ({ id: u.id, name: u.name, role: u.role })),
+    booths: booths.map((b) => ({ id: b.id, name: b.name, kind: b.kind })),
+  }
+}

@@ -454,13 +454,17 @@ export function completeRevision(p: Partial<SpecRevisionFields> & Pick<SpecRevis
 }
 
 function fullSchema(unit: TemperatureUnit) {
+  // The rules between fields run only once every field is valid on its own (a pipe stops at the first
+  // stage's issues), so one wrong value gives one message.
   return z
     .object(revisionShape(unit))
-    .superRefine((v, ctx) => {
-      for (const i of crossFieldIssues(v as Parameters<typeof crossFieldIssues>[0])) {
-        ctx.addIssue({ code: 'custom', message: i.message, path: i.path.split('.').map((p) => (/^\d+$/.test(p) ? Number(p) : p)) })
-      }
-    })
+    .pipe(
+      z.custom<RevisionRaw>().superRefine((v, ctx) => {
+        for (const i of crossFieldIssues(v as Parameters<typeof crossFieldIssues>[0])) {
+          ctx.addIssue({ code: 'custom', message: i.message, path: i.path.split('.').map((p) => (/^\d+$/.test(p) ? Number(p) : p)) })
+        }
+      }),
+    )
     .transform((v): SpecRevisionFields => {
       const f = partialToSI(v, unit)
       return completeRevision({

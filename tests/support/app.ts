@@ -66,9 +66,12 @@ export async function createTestDatabase(prefix = 'bb', adminUrl = inject('pgAdm
  */
 export async function startTestApp(
   extraEnv: Record<string, string> = {},
-  opts: { waitFor?: 'healthy' | 'http'; adminUrl?: string } = {},
+  opts: { waitFor?: 'healthy' | 'http'; adminUrl?: string; shareDatabaseOf?: TestApp } = {},
 ): Promise<TestApp> {
-  const database = await createTestDatabase('bb', opts.adminUrl)
+  // A second instance of the same shop shares the first one's database (and leaves it in place).
+  const database = opts.shareDatabaseOf
+    ? { url: opts.shareDatabaseOf.databaseUrl, name: opts.shareDatabaseOf.databaseName, drop: async () => undefined }
+    : await createTestDatabase('bb', opts.adminUrl)
   const port = await freePort()
   const mqttPort = await freePort()
   const dir = mkdtempSync(join(tmpdir(), 'boothbeat-test-'))
