@@ -38,11 +38,17 @@ function buildIfStale(force: boolean): void {
     console.log('[build] up to date')
     return
   }
-  console.log('[build] nuxt build …')
-  const r = spawnSync('npx', ['nuxt', 'build'], { stdio: ['ignore', 'pipe', 'inherit'], encoding: 'utf8' })
-  if (r.status !== 0) {
-    console.log(r.stdout)
-    throw new Error('nuxt build failed')
+  // A `nuxt typecheck` or build started by hand outside the lock shares the cache folder; one retry
+  // covers that race without hiding a real build error (which fails twice).
+  for (let attempt = 1; ; attempt++) {
+    console.log('[build] nuxt build …')
+    const r = spawnSync('npx', ['nuxt', 'build'], { stdio: ['ignore', 'pipe', 'inherit'], encoding: 'utf8' })
+    if (r.status === 0) break
+    if (attempt >= 2) {
+      console.log(r.stdout)
+      throw new Error('nuxt build failed')
+    }
+    console.log('[build] failed; trying once more')
   }
   console.log('[build] done')
 }

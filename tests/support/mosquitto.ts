@@ -5,12 +5,17 @@ import { join } from 'node:path'
 import { freePort } from '../../scripts/lib/ports'
 
 // Debian's Mosquitto on loopback for the scale tests: password file, ACL mirroring the embedded
-// broker's rules, unlimited queue for slow subscribers (the default 1000 silently drops QoS 1).
+// broker's rules, unlimited queue for slow subscribers (the default 1000 silently drops QoS 1), and
+// persistence so the app's session (its subscriptions and queued messages) survives a restart.
 
 export interface Mosquitto {
   url: string
   port: number
   appUser: { username: string; password: string }
+  /** Stops the broker process, leaving its configuration for start(). */
+  kill(): Promise<void>
+  /** Starts it again on the same port with the same configuration. */
+  start(): Promise<void>
   stop(): Promise<void>
 }
 
@@ -40,40 +45,51 @@ export async function startMosquitto(devices: { id: string; site: string; booth:
   writeFileSync(join(dir, 'acl'), acl.join('\n'))
   writeFileSync(
     join(dir, 'mosquitto.conf'),
-    [`listener ${port} 127.0.0.1`, 'allow_anonymous false', `password_file ${pw}`, `acl_file ${join(dir, 'acl')}`, 'max_queued_messages 0', 'persistence false', 'log_dest stderr', 'log_type error', ''].join('\n'),
+    [`listener ${port} 127.0.0.1`, 'allow_anonymous false', `password_file ${pw}`, `acl_file ${join(dir, 'acl')}`, 'max_queued_messages 0', 'persistence true', `persistence_location ${dir}/`, 'autosave_interval 1', 'log_dest stderr', 'log_type error', ''].join('\n'),
   )
-  if (process.getuid?.() === 0) execFileSync('chmod', ['-R', 'a+rX', dir])
-  const child: ChildProcess = spawn(BIN, ['-c', join(dir, 'mosquitto.conf')], { stdio: ['ignore', 'ignore', 'pipe'] })
-  let err = ''
-  child.stderr?.on('data', (d: Buffer) => (err += d))
-  // Wait for the port to accept connections.
+  // Started as root, mosquitto drops to its own user, which must read the files and write the
+  // persistence file.
+  if (process.getuid?.() === 0) execFileSync('chown', ['-R', 'mosquitto', dir])
+  let child: ChildProcess | undefined
   const net = await import('node:net')
-  const until = Date.now() + 10_000
-  for (;;) {
-    const ok = await new Promise<boolean>((res) => {
-      const s = net.connect(port, '127.0.0.1', () => {
-        s.end()
-        res(true)
+  const start = async () => {
+    const c = spawn(BIN, ['-c', join(dir, 'mosquitto.conf')], { stdio: ['ignore', 'ignore', 'pipe'] })
+    child = c
+    let err = ''
+    c.stderr?.on('data', (d: Buffer) => (err += d))
+    // Wait for the port to accept connections.
+    const until = Date.now() + 10_000
+    for (;;) {
+      const ok = await new Promise<boolean>((res) => {
+        const s = net.connect(port, '127.0.0.1', () => {
+          s.end()
+          res(true)
+        })
+        s.on('error', () => res(false))
       })
-      s.on('error', () => res(false))
-    })
-    if (ok) break
-    if (Date.now() > until || child.exitCode !== null) throw new Error(`mosquitto did not start: ${err}`)
-    await new Promise((r) => setTimeout(r, 100))
+      if (ok) break
+      if (Date.now() > until || c.exitCode !== null) throw new Error(`mosquitto did not start: ${err}`)
+      await new Promise((r) => setTimeout(r, 100))
+    }
   }
+  const kill = () =>
+    new Promise<void>((done) => {
+      const c = child
+      child = undefined
+      if (!c || c.exitCode !== null) return done()
+      c.once('exit', () => done())
+      c.kill('SIGTERM')
+    })
+  await start()
   return {
     url: `mqtt://127.0.0.1:${port}`,
     port,
     appUser,
-    stop: () =>
-      new Promise<void>((done) => {
-        const finish = () => {
-          rmSync(dir, { recursive: true, force: true })
-          done()
-        }
-        if (child.exitCode !== null) return finish()
-        child.once('exit', finish)
-        child.kill('SIGTERM')
-      }),
+    kill,
+    start,
+    stop: async () => {
+      await kill()
+      rmSync(dir, { recursive: true, force: true })
+    },
   }
 }
