@@ -17,7 +17,7 @@ const apiErrorHandler: NitroErrorHandler = (error, event) => {
   setResponseStatus(event, statusCode)
   setResponseHeader(event, 'content-type', 'application/json')
   const retryAfter = (error.data as { retryAfter?: number } | undefined)?.retryAfter
-  if (retryAfter) setResponseHeader(event, 'retry-after', String(retryAfter))
+  if (retryAfter) setResponseHeader(event, 'retry-after', retryAfter)
   return send(event, JSON.stringify(body))
 }
 

@@ -14,7 +14,7 @@ export interface BoothRow {
   site_name: string
 }
 
-export function listBooths(db: Db): Promise<BoothRow[]> {
+function boothQuery(db: Db) {
   return db
     .selectFrom('booths')
     .innerJoin('sites', 'sites.id', 'booths.site_id')
@@ -28,12 +28,14 @@ export function listBooths(db: Db): Promise<BoothRow[]> {
       'sites.slug as site_slug',
       'sites.name as site_name',
     ])
-    .orderBy('booths.id')
-    .execute()
 }
 
-export async function findBooth(db: Db, id: number): Promise<BoothRow | undefined> {
-  return (await listBooths(db)).find((b) => b.id === id)
+export function listBooths(db: Db): Promise<BoothRow[]> {
+  return boothQuery(db).orderBy('booths.id').execute()
+}
+
+export function findBooth(db: Db, id: number): Promise<BoothRow | undefined> {
+  return boothQuery(db).where('booths.id', '=', id).executeTakeFirst()
 }
 
 export function listActiveDevices(db: Db) {
