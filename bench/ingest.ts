@@ -4,12 +4,14 @@ import pg from 'pg'
 import { ensureBuilt } from '../scripts/lib/build'
 import { freePort } from '../scripts/lib/ports'
 import { startPostgres } from '../scripts/lib/postgres'
-import { startAppProcess, memoryOf } from './lib/app-process'
+import { startAppProcess, memoryOf, type AppProcess } from './lib/app-process'
+import { startMosquitto, type Mosquitto } from '../tests/support/mosquitto'
 import { fmt, percentile } from './lib/stats'
 
-// npm run bench:ingest -- [--devices K] [--readings N] [--window W]
+// npm run bench:ingest -- [--devices K] [--readings N] [--window W] [--instances 1|2]
 // K devices publish N readings each (QoS 1) through the embedded broker of a running app into a
-// fresh database. A probe device publishes one reading every 100 ms during the run and waits for
+// fresh database; with --instances 2, through Debian's Mosquitto to two app instances that split
+// the stream with a shared subscription. A probe device publishes one reading every 100 ms during the run and waits for
 // its row, which gives publish-to-row latency under load. Then a plain server-side COPY of the
 // same number of rows into the same table gives the ceiling.
 const arg = (name: string, dflt: number) => {
@@ -19,6 +21,7 @@ const arg = (name: string, dflt: number) => {
 const K = arg('devices', 10)
 const N = arg('readings', 20_000)
 const WINDOW = arg('window', 500)
+const INSTANCES = arg('instances', 1)
 const PASSWORD = 'bench-device-password'
 
 ensureBuilt()
@@ -32,8 +35,8 @@ const dbUrl = cluster.url.replace(/\/postgres$/, `/${dbName}`)
 const pool = new pg.Pool({ connectionString: dbUrl, max: 4 })
 
 const port = await freePort()
-const mqttPort = await freePort()
-const env = {
+let mqttPort = await freePort()
+const env: Record<string, string> = {
   DATABASE_URL: dbUrl,
   MQTT_PORT: String(mqttPort),
   NUXT_SESSION_PASSWORD: 'bench-session-password-0123456789-abcdefgh',
@@ -56,12 +59,26 @@ for (let i = 1; i <= K + 1; i++) {
   const { rows: [b] } = await pool.query<{ id: number }>(`INSERT INTO booths (site_id, slug, name, kind) VALUES ($1, $2, $2, 'downdraft') RETURNING id`, [site!.id, slug])
   await pool.query(`INSERT INTO devices (id, booth_id, secret_hash) VALUES ($1, $2, $3)`, [`larkspur-${slug}`, b!.id, dev!.secret_hash])
 }
-app = await startAppProcess(env, port)
-const pid = app.child.pid!
+let broker: Mosquitto | undefined
+const apps: AppProcess[] = []
+if (INSTANCES > 1) {
+  const slugs = [...Array.from({ length: K }, (_, i) => `bench-${i + 1}`), 'bench-probe']
+  broker = await startMosquitto(slugs.map((b) => ({ id: `larkspur-${b}`, site: 'larkspur', booth: b, password: PASSWORD })))
+  mqttPort = broker.port
+  for (let i = 0; i < INSTANCES; i++) {
+    const instanceEnv = { ...env, MQTT_URL: broker.url, MQTT_USERNAME: broker.appUser.username, MQTT_PASSWORD: broker.appUser.password, MQTT_SHARED_GROUP: 'ingest', MQTT_CLIENT_ID: `boothbeat-bench-${i}` }
+    apps.push(await startAppProcess(instanceEnv, i === 0 ? port : await freePort()))
+  }
+  app = apps[0]!
+} else {
+  app = await startAppProcess(env, port)
+  apps.push(app)
+}
+const pids = apps.map((a) => a.child.pid!)
 
 function connect(slug: string): Promise<MqttClient> {
   return new Promise((resolve, reject) => {
-    const c = mqtt.connect(`mqtt://127.0.0.1:${mqttPort}`, { username: `larkspur-${slug}`, password: PASSWORD, clientId: `larkspur-${slug}`, reconnectPeriod: 1000 })
+    const c = mqtt.connect(`mqtt://127.0.0.1:${mqttPort}`, { username: `larkspur-${slug}`, password: PASSWORD, clientId: `larkspur-${slug}`, reconnectPeriod: 1000, protocolVersion: INSTANCES > 1 ? 5 : 4 })
     c.once('connect', () => resolve(c))
     c.once('error', reject)
   })
@@ -75,7 +92,7 @@ const clients = await Promise.all(Array.from({ length: K }, (_, i) => connect(`b
 const probe = await connect('bench-probe')
 const { rows: [probeBooth] } = await pool.query<{ id: number }>(`SELECT id FROM booths WHERE slug = 'bench-probe'`)
 
-console.log(`ingest benchmark: ${K} devices × ${N.toLocaleString('en-US')} readings, QoS 1, window ${WINDOW} in flight per device`)
+console.log(`ingest benchmark: ${K} devices × ${N.toLocaleString('en-US')} readings, QoS 1, window ${WINDOW} in flight per device, ${INSTANCES > 1 ? `${INSTANCES} instances on Mosquitto (shared subscription)` : 'one instance, embedded broker'}`)
 let acked = 0
 const started = performance.now()
 const publishAll = clients.map(
@@ -117,8 +134,8 @@ const probeLoop = (async () => {
   }
 })()
 
-let peakApp = 0
-const sampler = setInterval(() => (peakApp = Math.max(peakApp, memoryOf(pid).rssMiB)), 200)
+const peakApp = pids.map(() => 0)
+const sampler = setInterval(() => pids.forEach((p, i) => (peakApp[i] = Math.max(peakApp[i]!, memoryOf(p).rssMiB))), 200)
 await Promise.all(publishAll)
 const publishedMs = performance.now() - started
 const expected = K * N
@@ -133,11 +150,15 @@ const storedMs = performance.now() - started
 probing = false
 await probeLoop
 clearInterval(sampler)
-const health = (await (await fetch(`${app.url}/api/health`)).json()) as { ingestion: { duplicates: number; rejected: number } }
-const appMem = memoryOf(pid)
+const healths = (await Promise.all(apps.map(async (a) => (await fetch(`${a.url}/api/health`)).json()))) as { ingestion: { duplicates: number; rejected: number; stored: number } }[]
+const health = { ingestion: { duplicates: healths.reduce((s, h) => s + h.ingestion.duplicates, 0), rejected: healths.reduce((s, h) => s + h.ingestion.rejected, 0) } }
+const appMems = pids.map((p) => memoryOf(p))
+const brokerPid = broker?.pid()
+const brokerMem = brokerPid ? memoryOf(brokerPid) : undefined
 const benchMem = memoryOf(process.pid)
 await Promise.all([...clients, probe].map((c) => c.endAsync()))
-await app.stop()
+await Promise.all(apps.map((a) => a.stop()))
+await broker?.stop()
 
 // Ceiling: the same number of rows with a server-side COPY into the same (emptied) table.
 const csvPath = `/tmp/boothbeat-bench-${process.pid}.csv`
@@ -163,8 +184,8 @@ console.log(`
   lost                         ${fmt(expected - stored)}
   duplicated                   ${fmt(stored - Math.min(stored, expected))} rows stored twice; ${fmt(health.ingestion.duplicates)} redeliveries skipped by the key
   rejected                     ${fmt(health.ingestion.rejected)}
-  app RSS (broker+subscriber)  ${fmt(appMem.rssMiB)} MiB now, ${fmt(Math.max(peakApp, appMem.peakMiB))} MiB peak
-  bench publisher RSS          ${fmt(benchMem.rssMiB)} MiB (peak ${fmt(benchMem.peakMiB)} MiB)
+${apps.map((_, i) => `  app ${INSTANCES > 1 ? `#${i + 1} (subscriber)` : '(broker+subscriber)'} RSS ${fmt(appMems[i]!.rssMiB)} MiB now, ${fmt(Math.max(peakApp[i]!, appMems[i]!.peakMiB))} MiB peak${INSTANCES > 1 ? `, stored ${fmt(healths[i]!.ingestion.stored)}` : ''}`).join('\n')}
+${brokerMem ? `  Mosquitto RSS                ${fmt(brokerMem.rssMiB)} MiB (peak ${fmt(brokerMem.peakMiB)} MiB)\n` : ''}  bench publisher RSS          ${fmt(benchMem.rssMiB)} MiB (peak ${fmt(benchMem.peakMiB)} MiB)
   COPY ceiling                 ${fmt(copyRate)} rows/s (${fmt(copyMs)} ms for ${fmt(expected)} rows)
   pipeline / COPY              ${fmt((rate / copyRate) * 100, 1)} %
   watches                      ${env.BOOTHBEAT_WATCHES}

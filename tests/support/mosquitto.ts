@@ -12,6 +12,8 @@ export interface Mosquitto {
   url: string
   port: number
   appUser: { username: string; password: string }
+  /** The broker's process id (for memory figures). */
+  pid(): number | undefined
   /** Stops the broker process, leaving its configuration for start(). */
   kill(): Promise<void>
   /** Starts it again on the same port with the same configuration. */
@@ -85,6 +87,7 @@ export async function startMosquitto(devices: { id: string; site: string; booth:
     url: `mqtt://127.0.0.1:${port}`,
     port,
     appUser,
+    pid: () => child?.pid,
     kill,
     start,
     stop: async () => {
