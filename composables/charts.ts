@@ -30,3 +30,38 @@ export const MARKER_STYLE: Record<ChartMarker['kind'], { line: string; area: str
   bake: { line: '#8a4b00', area: 'rgba(246, 183, 74, 0.20)', dash: 'solid' },
   alert: { line: '#b0241b', area: 'rgba(176, 36, 27, 0.10)', dash: 'dashed' },
 }
+
+/**
+ * The markers as one invisible ECharts line series: `at` alone → a vertical line (markLine), `at` …
+ * `until` → a shaded span (markArea), each labelled; markers with unreadable times are left out.
+ */
+export function buildMarkerSeries(markers: readonly ChartMarker[]) {
+  const valid = markers.filter((m) => Number.isFinite(Date.parse(m.at)))
+  const lines = valid.filter((m) => !m.until)
+  const areas = valid.filter((m) => m.until && Number.isFinite(Date.parse(m.until)))
+  return {
+    type: 'line' as const,
+    name: '__markers',
+    data: [] as [number, number][],
+    silent: true,
+    tooltip: { show: false },
+    markLine: {
+      symbol: ['none', 'none'],
+      animation: false,
+      label: { show: true, position: 'insideEndTop' as const, formatter: '{b}', color: '#243336', fontSize: 11 },
+      data: lines.map((m) => ({
+        name: m.label,
+        xAxis: Date.parse(m.at),
+        lineStyle: { color: MARKER_STYLE[m.kind].line, type: MARKER_STYLE[m.kind].dash, width: 1.5 },
+      })),
+    },
+    markArea: {
+      silent: true,
+      label: { show: true, position: 'insideTop' as const, color: '#243336', fontSize: 11 },
+      data: areas.map((m) => [
+        { name: m.label, xAxis: Date.parse(m.at), itemStyle: { color: MARKER_STYLE[m.kind].area } },
+        { xAxis: Date.parse(m.until!) },
+      ]),
+    },
+  }
+}

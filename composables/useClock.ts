@@ -2,7 +2,10 @@ import { onBeforeUnmount, onMounted, ref } from 'vue'
 
 /** A ticking "now" (ms) for "x s ago" texts; ticks only in the browser while the component is mounted. */
 export function useClock(intervalMs = 1_000) {
-  const now = ref(Date.now())
+  // Starts from the server's render time so the hydrated text matches the server's; the first
+  // tick after mounting moves it to the real time.
+  const rendered = useState('bb-render-now', () => Date.now())
+  const now = ref(import.meta.client && !useNuxtApp().isHydrating ? Date.now() : rendered.value)
   let timer: ReturnType<typeof setInterval> | null = null
   onMounted(() => {
     now.value = Date.now()

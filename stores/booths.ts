@@ -2,6 +2,7 @@ import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import { apiFailure } from '~/composables/apiError'
 import { useLiveStream } from '~/composables/useLiveStream'
+import { useSessionStore } from '~/stores/session'
 
 export type BoothMode = 'idle' | 'spray' | 'flash' | 'bake' | 'cool'
 export type BoothKind = 'downdraft' | 'semi_downdraft' | 'crossdraft' | 'prep_deck'
@@ -104,6 +105,7 @@ export const useBoothsStore = defineStore('booths', () => {
   /** Last time (client clock) each booth got a live update. */
   const updatedAt = ref<Record<number, number>>({})
   const request = useRequestFetch()
+  const nuxtApp = useNuxtApp()
 
   const list = computed(() => [...booths.value].sort((a, b) => a.site.name.localeCompare(b.site.name) || a.name.localeCompare(b.name)))
   const sites = computed(() => {
@@ -180,7 +182,20 @@ export const useBoothsStore = defineStore('booths', () => {
       booth: (d) => applyLive(d as LiveBoothEvent),
       heartbeat: (d) => applyHeartbeat(d as LiveHeartbeat),
     },
-    { immediate: false },
+    {
+      immediate: false,
+      // Repeated failures may mean the session ended: ask, and go to sign-in if so.
+      onError: (failures) => {
+        if (failures % 3 !== 0) return
+        const session = useSessionStore()
+        void session.fetchMe().then(() => {
+          if (session.loaded && !session.user) {
+            stream.close()
+            void nuxtApp.runWithContext(() => navigateTo('/login'))
+          }
+        })
+      },
+    },
   )
   const connection = computed(() => stream.state.value)
 

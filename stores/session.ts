@@ -76,15 +76,17 @@ export const useSessionStore = defineStore('session', () => {
     loaded.value = true
   }
 
-  /** Reads /api/me. Signed out (401) → user null. Other failures leave `loaded` false so the next navigation retries. */
+  /**
+   * Reads /api/me. Signed out (401) → user null. Any other failure (network, 5xx) changes nothing,
+   * so a blip never signs the screen out; before the first answer `loaded` stays false.
+   */
   async function fetchMe(): Promise<AccountUser | null> {
     try {
       const res = await request<{ user: AccountUser }>('/api/me', { headers: { accept: 'application/json' } })
       setUser(res.user)
     } catch (e) {
       const f = apiFailure(e)
-      user.value = null
-      if (f.status === 401 || f.status === 403) loaded.value = true
+      if (f.status === 401 || f.status === 403) setUser(null)
     }
     return user.value
   }

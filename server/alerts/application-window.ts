@@ -33,12 +33,12 @@ export const ApplicationWindowSchema = z
     minRhPct: limit('minRhPct', 0, 100),
     maxRhPct: limit('maxRhPct', 0, 100),
   })
-  .refine((l) => l.minTempC === undefined || l.maxTempC === undefined || l.minTempC < l.maxTempC, {
-    message: 'minTempC must be below maxTempC',
+  .refine((l) => l.minTempC === undefined || l.maxTempC === undefined || l.minTempC <= l.maxTempC, {
+    message: 'minTempC must not be above maxTempC',
     path: ['minTempC'],
   })
-  .refine((l) => l.minRhPct === undefined || l.maxRhPct === undefined || l.minRhPct < l.maxRhPct, {
-    message: 'minRhPct must be below maxRhPct',
+  .refine((l) => l.minRhPct === undefined || l.maxRhPct === undefined || l.minRhPct <= l.maxRhPct, {
+    message: 'minRhPct must not be above maxRhPct',
     path: ['minRhPct'],
   })
 

@@ -92,7 +92,7 @@ export interface AlertRuntimeOptions {
 }
 
 const MAX_QUEUE = 50_000
-const MAX_EVENT_ATTEMPTS = 10
+const MAX_EVENT_ATTEMPTS = 5
 
 function stateJson(b: BoothState): { snapshot: BoothEvaluatorSnapshot; app: unknown; json: string } {
   const snapshot = b.evaluator.snapshot()
@@ -169,13 +169,7 @@ export class AlertRuntime {
   // ---- hot path
 
   onAccepted(row: ReadingRow): void {
-    let b = this.booths.get(row.boothId)
-    if (!b) {
-      // A booth added since start: shop defaults now, its own set on the next version check.
-      b = this.build(row.boothId, defaultWatches(), null, null)
-      this.booths.set(row.boothId, b)
-      this.lastVersionCheckAt = 0
-    }
+    const b = this.ensure(row.boothId)
     b.offsetMs = row.receivedMs - row.tsMs
     const surface = row.panelTempC ?? row.airTempC
     const margin = surface !== null && row.dewPointC !== null ? surface - row.dewPointC : null
@@ -198,8 +192,18 @@ export class AlertRuntime {
   }
 
   onMode(boothId: number, mode: string): void {
-    const b = this.booths.get(boothId)
-    if (b && isBoothMode(mode)) b.mode = mode
+    if (isBoothMode(mode)) this.ensure(boothId).mode = mode
+  }
+
+  /** A booth added since start gets the shop defaults now, and its own set at the next version check. */
+  private ensure(boothId: number): BoothState {
+    let b = this.booths.get(boothId)
+    if (!b) {
+      b = this.build(boothId, defaultWatches(), null, null)
+      this.booths.set(boothId, b)
+      this.lastVersionCheckAt = 0
+    }
+    return b
   }
 
   // ---- for the jobs code
@@ -252,6 +256,16 @@ export class AlertRuntime {
       }
     })()
     return this.running
+  }
+
+  private lastFailureLog = 0
+
+  /** At most one warning every 10 s while the database is away. */
+  private logFailure(message: string): void {
+    const now = Date.now()
+    if (now - this.lastFailureLog < 10_000) return
+    this.lastFailureLog = now
+    console.warn(`[alerts] ${message}`)
   }
 
   stats() {
@@ -373,9 +387,14 @@ export class AlertRuntime {
         if (b && st) b.savedJson = st.json
         for (const r of rows) changed.push({ id: r.row.id, type: r.type })
       } catch (e) {
-        console.warn(`[alerts] could not store alert changes of booth ${boothId}:`, e instanceof Error ? e.message : e)
+        // The database being away is retried for as long as it takes (the queue is bounded); an error in the
+        // data itself (SQLSTATE class 22 / 23, e.g. a booth that no longer exists) is given a few tries only.
+        const code = (e as { code?: unknown }).code
+        const dataError = typeof code === 'string' && (code.startsWith('22') || code.startsWith('23'))
+        this.logFailure(`could not store alert changes of booth ${boothId}: ${e instanceof Error ? e.message : String(e)}`)
         for (const item of items) {
-          if (item.attempts + 1 < MAX_EVENT_ATTEMPTS) retry.push({ event: item.event, attempts: item.attempts + 1 })
+          const attempts = dataError ? item.attempts + 1 : item.attempts
+          if (attempts < MAX_EVENT_ATTEMPTS) retry.push({ event: item.event, attempts })
           else this.dropped++
         }
       }

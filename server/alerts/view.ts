@@ -11,6 +11,8 @@ export interface AlertView {
   timeZone: string
   ruleId: string
   kind: string
+  /** The watch's own name, when the manager gave one; else use kindLabel. */
+  label: string | null
   kindLabel: string
   severity: 'critical' | 'warning'
   channel: string | null
@@ -53,6 +55,7 @@ export function toAlertView(r: AlertDetailRow, nowMs = Date.now()): AlertView {
     timeZone: r.time_zone,
     ruleId: r.rule_id,
     kind: r.kind,
+    label: r.label,
     kindLabel: kindLabel(r.kind),
     severity: r.severity,
     channel: r.channel,

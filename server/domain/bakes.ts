@@ -1,6 +1,6 @@
 import type { Kysely, Transaction } from 'kysely'
 import { detectPhases, phaseAt, type BakeSample, type PhaseName, type PhaseResult } from '#shared/bake/phases'
-import { applicableSchedules, FORCE_DRY_MIN_C, judgeBake, minutesText, type BakeJudgement, type BakeSchedule } from '#shared/bake/verdict'
+import { holdTargetOf, judgeBake, minutesText, type BakeJudgement, type BakeSchedule } from '#shared/bake/verdict'
 import { BAKE_CAUTIONS, SAFETY_DEFERRAL } from '#shared/bake/safety'
 import type { BakeResultSnapshot, BakeSource } from '#shared/bake/types'
 import type { StartBakeInput } from '#shared/bake/schemas'
@@ -150,10 +150,8 @@ export interface BakeEvaluation {
 
 function targetOf(bake: Bake, schedules: readonly BakeSchedule[]): { targetC: number | null; source: 'tech' | 'spec' | null } {
   if (bake.target_temp_c !== null) return { targetC: bake.target_temp_c, source: 'tech' }
-  const temps = applicableSchedules(schedules)
-    .map((s) => s.spec.specTempC)
-    .filter((t) => Number.isFinite(t) && t >= FORCE_DRY_MIN_C)
-  return temps.length ? { targetC: Math.max(...temps), source: 'spec' } : { targetC: null, source: null }
+  const t = holdTargetOf(schedules)
+  return t === null ? { targetC: null, source: null } : { targetC: t, source: 'spec' }
 }
 
 async function evaluate(db: Db, bake: Bake, schedules: readonly BakeSchedule[], nowMs: number): Promise<BakeEvaluation> {

@@ -12,7 +12,7 @@ import {
 import { applicationLimits, reducerBands, toFlashSpec, toPotLifeSpec, type FlashStage } from '#shared/specs/engine-inputs'
 import type { Database, SiteUnits } from '../db/database'
 import type { Coat, Job, JobStep, Mix } from '../db/tables/jobs'
-import { setApplicationWindow } from '../alerts/runtime'
+import { setApplicationWindow } from '../alerts'
 import { listCoatsOfJob, findOpenCoatOfBooth } from '../repositories/coats'
 import { boothWithUnits, findJob, listOpenJobsOfBooth, listSteps } from '../repositories/jobs'
 import { listOpenMixesOfBooth } from '../repositories/mixes'
@@ -130,7 +130,7 @@ export interface BoothScreenState {
   /** What starting the next coat now would run into (each needs a reason to go past). */
   checks: {
     flashReady: boolean | null
-    applicationWindow: { ok: boolean; problems: { channel: string; value: number | null; limit: number; kind: string }[] }
+    applicationWindow: { product: string | null; ok: boolean; problems: { channel: string; value: number | null; limit: number; kind: string }[] }
     condensation: { ok: boolean; marginC: number | null; dewPointC: number | null; minMarginC: number }
     needsReason: ('flash_not_complete' | 'outside_application_window' | 'condensation_guard')[]
   }
@@ -212,7 +212,8 @@ export function assembleScreenState(inp: ScreenInput): BoothScreenState {
   // Checks for starting the next coat now, on the stored reading held now (what the start will see).
   const held = readingAt(inp.samples, nowMs, DEFAULT_MAX_HOLD_MS)
   const nextRev = next ? revs.get(next.step.revision_id) : undefined
-  const app = applicationWindowCheck(nextRev ? applicationLimits(nextRev.fields) : {}, held)
+  // The window of the product being sprayed now, else of the one sprayed next.
+  const app = applicationWindowCheck(currentRev ? applicationLimits(currentRev.fields) : {}, held)
   const surface = held.panelTempC ?? held.airTempC
   const cond = held.airTempC !== null && held.rhPct !== null && surface !== null ? condensationGuard(surface, held.airTempC, held.rhPct, DEW_POINT_MIN_MARGIN_C) : null
   const flashReady = flash ? flash.ready : next?.previous ? false : null
@@ -341,7 +342,11 @@ export function assembleScreenState(inp: ScreenInput): BoothScreenState {
     flash,
     checks: {
       flashReady,
-      applicationWindow: { ok: app.ok, problems: app.problems.map((p) => ({ channel: p.channel, value: p.value, limit: p.limit, kind: p.kind })) },
+      applicationWindow: {
+        product: currentRev ? label(currentRev) : null,
+        ok: app.ok,
+        problems: app.problems.map((p) => ({ channel: p.channel, value: p.value, limit: p.limit, kind: p.kind })),
+      },
       condensation: {
         ok: !!cond?.ok,
         marginC: cond && Number.isFinite(cond.marginC) ? Math.round(cond.marginC * 100) / 100 : null,

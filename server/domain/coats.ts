@@ -204,6 +204,20 @@ export interface ActionContext {
   now?: Date
 }
 
+/**
+ * Who acts: a signed-in user's role is checked before anything is looked up (so an auditor gets 403
+ * whatever the ids); a screen's PIN is checked for the booth the action is about.
+ */
+export async function actorFor(
+  db: Kysely<Database>,
+  ctx: ActionContext,
+  creds: { painterId?: number; pin?: string },
+  boothOf: () => Promise<number | null>,
+): Promise<Actor> {
+  if (ctx.session.user) return resolveActor(db, ctx, ctx.session, null, creds)
+  return resolveActor(db, ctx, ctx.session, await boothOf(), creds)
+}
+
 function timeOf(at: string | undefined, now: Date, what: string): Date {
   if (!at) return now
   const t = new Date(at)
@@ -230,10 +244,14 @@ export interface CoatActionResult {
  */
 export async function startCoat(db: Kysely<Database>, ctx: ActionContext, input: z.output<typeof StartCoatSchema>): Promise<CoatActionResult> {
   const now = ctx.now ?? new Date()
+  const actor = await actorFor(db, ctx, input, async () => {
+    const job = await findJob(db, input.jobId)
+    if (!job) throw new JobError(404, 'No such job')
+    return job.booth_id
+  })
   const pre = await findJob(db, input.jobId)
   if (!pre) throw new JobError(404, 'No such job')
   if (!pre.booth_id) throw new JobError(400, 'Assign the job to a booth before spraying')
-  const actor = await resolveActor(db, ctx, ctx.session, pre.booth_id, input)
   const at = timeOf(input.at, now, 'start')
 
   return db.transaction().execute(async (tx) => {
@@ -318,9 +336,13 @@ export async function startCoat(db: Kysely<Database>, ctx: ActionContext, input:
 /** Finishes a coat in progress; after the plan's last coat the job moves on to curing. */
 export async function finishCoat(db: Kysely<Database>, ctx: ActionContext, coatId: number, input: z.output<typeof FinishCoatSchema>): Promise<CoatActionResult> {
   const now = ctx.now ?? new Date()
+  const actor = await actorFor(db, ctx, input, async () => {
+    const coat = await findCoat(db, coatId)
+    if (!coat) throw new JobError(404, 'No such coat')
+    return coat.booth_id
+  })
   const pre = await findCoat(db, coatId)
   if (!pre) throw new JobError(404, 'No such coat')
-  const actor = await resolveActor(db, ctx, ctx.session, pre.booth_id, input)
   const at = timeOf(input.at, now, 'finish')
   return db.transaction().execute(async (tx) => {
     const job = await lockJob(tx, pre.job_id)

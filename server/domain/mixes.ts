@@ -10,9 +10,9 @@ import { findJob, listSteps } from '../repositories/jobs'
 import { closeMixRow, findMix, insertMix } from '../repositories/mixes'
 import { freezeRevision } from '../repositories/specs'
 import { appendEvent, actorOf } from './event-log'
-import { CLOCK_SKEW_MS, BACKDATE_LIMIT_MS, readingAt, samplesOf, type ActionContext } from './coats'
+import { actorFor, CLOCK_SKEW_MS, BACKDATE_LIMIT_MS, readingAt, samplesOf, type ActionContext } from './coats'
 import { JobError, loadRevisions, revisionLabel, type RevisionInfo } from './jobs'
-import { resolveActor, type Actor } from './pairing'
+import type { Actor } from './pairing'
 
 // Mixes: a painter logs a cup of mixed product (revision, reducer grade, amount, time) and closes it
 // when it is used or thrown away. The reducer is checked against the data sheet's band for the booth
@@ -49,8 +49,8 @@ export interface MixActionResult {
 
 export async function logMix(db: Kysely<Database>, ctx: ActionContext, input: z.output<typeof LogMixSchema>): Promise<MixActionResult> {
   const now = ctx.now ?? new Date()
+  const actor = await actorFor(db, ctx, input, async () => input.boothId)
   if (!(await findBooth(db, input.boothId))) throw new JobError(404, 'No such booth')
-  const actor = await resolveActor(db, ctx, ctx.session, input.boothId, input)
   const mixedAt = input.mixedAt ? new Date(input.mixedAt) : now
   if (mixedAt.getTime() > now.getTime() + CLOCK_SKEW_MS || mixedAt.getTime() < now.getTime() - BACKDATE_LIMIT_MS) {
     throw new JobError(400, 'The mixing time must be within the last 12 hours', [{ path: 'mixedAt', message: 'Within the last 12 hours' }])
@@ -114,9 +114,13 @@ export async function logMix(db: Kysely<Database>, ctx: ActionContext, input: z.
 /** Closes an open mix as used or discarded, recording how much of its pot life it had used. */
 export async function closeMix(db: Kysely<Database>, ctx: ActionContext, mixId: number, input: z.output<typeof CloseMixSchema>): Promise<MixActionResult> {
   const now = ctx.now ?? new Date()
+  const actor = await actorFor(db, ctx, input, async () => {
+    const mix = await findMix(db, mixId)
+    if (!mix) throw new JobError(404, 'No such mix')
+    return mix.booth_id
+  })
   const pre = await findMix(db, mixId)
   if (!pre) throw new JobError(404, 'No such mix')
-  const actor = await resolveActor(db, ctx, ctx.session, pre.booth_id, input)
   if (pre.closed_at) throw new JobError(409, 'This mix is already closed')
   const revision = (await loadRevisions(db, [pre.revision_id])).get(pre.revision_id)
   const spec = revision ? toPotLifeSpec(revision.product, revision.fields) : null

@@ -53,10 +53,9 @@ export function hashPairingCode(code: string): string {
   return createHash('sha256').update(`boothbeat-pairing\n${code}`).digest('hex')
 }
 
-/** PAIRING_CODE_TTL_SECONDS (1…86 400; tests use a few seconds), else 10 minutes. */
-export function pairingCodeTtlSeconds(env: Record<string, string | undefined> = process.env): number {
-  const n = Number(env.PAIRING_CODE_TTL_SECONDS)
-  return Number.isInteger(n) && n >= 1 && n <= 86_400 ? n : DEFAULT_PAIRING_TTL_S
+/** PAIRING_CODE_TTL_SECONDS (server/config.ts; 1…86 400, tests use a few seconds), default 10 minutes. */
+export function pairingCodeTtlSeconds(): number {
+  return settings().PAIRING_CODE_TTL_SECONDS
 }
 
 export async function issuePairingCode(

@@ -206,7 +206,7 @@ export async function editRevision(db: Kysely<Database>, user: Actor, revisionId
     const product = await findProduct(tx, locked.product_id)
     const current = await findRevision(tx, revisionId)
     if (!product || !current) throw new SpecError(404, 'No such spec revision')
-    const merged: SpecRevisionFields = { ...pickFields(current), ...changes }
+    const merged = snapToCurrent(pickFields(current), { ...pickFields(current), ...changes })
     assertValidFor(product, merged)
     const changed = changedFields(pickFields(current), merged, Object.keys(merged) as (keyof SpecRevisionFields)[])
 
@@ -239,6 +239,25 @@ export async function freezeRevisionBy(db: Kysely<Database>, user: Actor, revisi
   const r = await db.transaction().execute((tx) => freezeRevision(tx, revisionId, { actor: actorOf(user), usedBy: { type: 'request', id: user.id } }))
   if (!r) throw new SpecError(404, 'No such spec revision')
   return r
+}
+
+/**
+ * Numbers within SAME_WITHIN of the stored value keep the stored value: a form that shows °C values in °F
+ * with two decimals sends them back a few thousandths of a degree off, and that is no change (a frozen
+ * revision must not get a new revision for it).
+ */
+export const SAME_WITHIN = 0.005
+export function snapToCurrent<T>(current: T, next: T): T {
+  if (typeof current === 'number' && typeof next === 'number') return (Math.abs(current - next) <= SAME_WITHIN ? current : next) as T
+  if (Array.isArray(current) && Array.isArray(next)) {
+    return (current.length === next.length ? next.map((v: unknown, i) => snapToCurrent(current[i], v)) : next) as T
+  }
+  if (current && next && typeof current === 'object' && typeof next === 'object') {
+    const out: Record<string, unknown> = { ...(next as Record<string, unknown>) }
+    for (const k of Object.keys(out)) out[k] = snapToCurrent((current as Record<string, unknown>)[k], out[k])
+    return out as T
+  }
+  return next
 }
 
 /** Only the SpecRevisionFields of a revision (drops id, number, dates, file). */

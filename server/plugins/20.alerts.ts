@@ -21,8 +21,11 @@ export default defineNitroPlugin((nitro) => {
   const early: ReadingRow[] = []
   const earlyModes: [number, BoothModeValue][] = []
   let runtime: AlertRuntime | undefined
+  // Without ingest (BOOTHBEAT_TELEMETRY=off) nothing is evaluated: every booth would only look silent. Alerts can
+  // still be read, acknowledged and resolved, and queued mail is still sent.
+  const evaluate = process.env.BOOTHBEAT_TELEMETRY !== 'off'
 
-  setTelemetryHooks({
+  if (evaluate) setTelemetryHooks({
     onAccepted(row) {
       try {
         if (runtime) runtime.onAccepted(row)
@@ -33,7 +36,7 @@ export default defineNitroPlugin((nitro) => {
     },
     onMode(boothId, mode) {
       if (runtime) runtime.onMode(boothId, mode)
-      else earlyModes.push([boothId, mode])
+      else if (earlyModes.length < 1_000) earlyModes.push([boothId, mode])
     },
   })
 
@@ -65,6 +68,12 @@ export default defineNitroPlugin((nitro) => {
 
   const started = databaseReady()
     .then(async () => {
+      timers.push(setInterval(() => void notifier.run(), 1_000))
+      timers.push(setInterval(() => void worker.run(), 1_000))
+      if (!evaluate) {
+        setComponentState('alerts', true, 'not evaluating: telemetry is off')
+        return
+      }
       const r = new AlertRuntime(db, {
         initialBooths: async (): Promise<InitialBooth[]> =>
           (await loadLatestStates(db)).map((st) => ({
@@ -81,8 +90,6 @@ export default defineNitroPlugin((nitro) => {
       for (const row of early.splice(0)) r.onAccepted(row)
       runtime = r
       setAlertRuntime(r)
-      timers.push(setInterval(() => void notifier.run(), 1_000))
-      timers.push(setInterval(() => void worker.run(), 1_000))
       setComponentState('alerts', true)
     })
     .catch((e: unknown) => {

@@ -24,7 +24,11 @@ export async function requireUser(
   opts: { allowPasswordChange?: boolean } = {},
 ): Promise<SessionUser> {
   const session = await getUserSession(event)
-  if (!session.user) throw createError({ statusCode: 401, message: 'Sign in first' })
+  if (!session.user) {
+    // A paired booth screen is known but has no staff rights.
+    if (session.screen) throw createError({ statusCode: 403, message: 'A booth screen cannot do this' })
+    throw createError({ statusCode: 401, message: 'Sign in first' })
+  }
   const user = await findUserById(useDb(), session.user.id)
   if (!user || user.disabled_at) {
     await clearUserSession(event)

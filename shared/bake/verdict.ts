@@ -70,7 +70,7 @@ export interface BakeJudgement {
   products: ProductVerdict[]
   /** When every product is cured (the latest of the products' completions); null when unknown. */
   cureCompleteAtMs: number | null
-  /** The schedule temperature the booth should hold (the highest applicable), °C. */
+  /** The schedule temperature the booth should hold (see holdTargetOf), °C. */
   holdTargetC: number | null
 }
 
@@ -158,6 +158,22 @@ export function judgeSchedule(
   }
 }
 
+/**
+ * The temperature a booth should hold for these schedules, °C: per product the lowest of its bake schedules
+ * (any one alternative will do), then the highest over the products (every product must cure). null without
+ * a bake schedule.
+ */
+export function holdTargetOf(schedules: readonly BakeSchedule[]): number | null {
+  const perProduct = new Map<string, number>()
+  for (const s of schedules) {
+    const t = s.spec?.specTempC
+    if (!Number.isFinite(t) || t < FORCE_DRY_MIN_C) continue
+    const k = `${s.jobId ?? '-'}/${s.revisionId ?? '-'}`
+    perProduct.set(k, Math.min(perProduct.get(k) ?? Number.POSITIVE_INFINITY, t))
+  }
+  return perProduct.size ? Math.max(...perProduct.values()) : null
+}
+
 const RANK: Record<Verdict, number> = { pass: 3, pending: 2, fail: 1, unknown: 0 }
 
 /**
@@ -204,8 +220,5 @@ export function judgeBake(
   }
   const ends = products.map((p) => p.completeAtMs)
   const cureCompleteAtMs = ends.length && ends.every((t): t is number => t !== null) ? Math.max(...ends) : null
-  const temps = applicableSchedules(schedules)
-    .map((s) => s.spec.specTempC)
-    .filter((t) => Number.isFinite(t) && t >= FORCE_DRY_MIN_C)
-  return { verdict, products, cureCompleteAtMs, holdTargetC: temps.length ? Math.max(...temps) : null }
+  return { verdict, products, cureCompleteAtMs, holdTargetC: holdTargetOf(schedules) }
 }

@@ -386,7 +386,8 @@ export function revisionContextIssues(product: ProductEngineFields, f: Partial<S
   return out
 }
 
-const toC = (v: number, unit: TemperatureUnit) => (unit === 'F' ? fToC(v) : v)
+// Rounded to a millionth of a degree so a bound typed in °F (e.g. −4 °F) lands exactly on its °C bound (−20 °C).
+const toC = (v: number, unit: TemperatureUnit) => (unit === 'F' ? Math.round(fToC(v) * 1e6) / 1e6 : v)
 const toCOrNull = (v: number | null | undefined, unit: TemperatureUnit) => (present(v) ? toC(v, unit) : null)
 
 type RawBand = NonNullable<RevisionRaw['reducerBands']>[number]

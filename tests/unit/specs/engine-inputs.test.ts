@@ -20,6 +20,7 @@ import {
   toFlashSpec,
   toPotLifeSpec,
 } from '#shared/specs/engine-inputs'
+import { revisionContextIssues, revisionIssuesSI } from '#shared/schemas/spec'
 import { DEMO_PRODUCTS } from '../../../server/domain/demo-specs'
 import { fields } from './fixtures'
 
@@ -175,6 +176,12 @@ describe('reducer bands and application limits', () => {
 })
 
 describe('demo products', () => {
+  it('each passes the revision schema and the product rules', () => {
+    for (const d of DEMO_PRODUCTS) {
+      expect([...revisionIssuesSI(d.revision), ...revisionContextIssues(d.product, d.revision)], d.product.name).toEqual([])
+    }
+  })
+
   it('each maps to valid engine inputs', () => {
     for (const d of DEMO_PRODUCTS) {
       const flash = flashProgress(toFlashSpec(d.product, d.revision), constant(1, { airTempC: 20, rhPct: 50, airflowMps: 0.3 }), T0, T0 + MIN, HOLD)

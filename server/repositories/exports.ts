@@ -1,0 +1,218 @@
+import { sql, type Kysely, type Transaction } from 'kysely'
+import type { Database } from '../db/database'
+import type { ExportRow, NewExportRow } from '../db/tables/evidence'
+import type { ExportReadingRow } from '../evidence/csv'
+
+// Kysely access for evidence: the exports record, and the reads a pack needs that no other repository
+// offers (readings page by page, coverage, coats and alerts of a period, revisions with their TDS file).
+type Db = Kysely<Database> | Transaction<Database>
+
+// ── exports ──────────────────────────────────────────────────────────────────────────────────────────
+
+export function insertExport(db: Db, row: NewExportRow): Promise<ExportRow> {
+  return db.insertInto('exports').values(row).returningAll().executeTakeFirstOrThrow()
+}
+
+export interface ExportListRow extends ExportRow {
+  job_number: string | null
+  booth_name: string | null
+}
+
+function exportQuery(db: Db) {
+  return db
+    .selectFrom('exports')
+    .leftJoin('jobs', 'jobs.id', 'exports.job_id')
+    .leftJoin('booths', 'booths.id', 'exports.booth_id')
+    .selectAll('exports')
+    .select(['jobs.number as job_number', 'booths.name as booth_name'])
+}
+
+/** Newest first; `before` pages by exported_at. */
+export function listExports(db: Db, f: { limit: number; before?: Date; jobId?: number }): Promise<ExportListRow[]> {
+  let q = exportQuery(db)
+  if (f.before) q = q.where('exports.exported_at', '<', f.before)
+  if (f.jobId) q = q.where('exports.job_id', '=', f.jobId)
+  return q.orderBy('exports.exported_at', 'desc').orderBy('exports.id').limit(f.limit).execute()
+}
+
+export function findExport(db: Db, id: string): Promise<ExportListRow | undefined> {
+  return exportQuery(db).where('exports.id', '=', id).executeTakeFirst()
+}
+
+// ── readings ─────────────────────────────────────────────────────────────────────────────────────────
+
+export interface ReadingPageRow extends ExportReadingRow {
+  /** The exact stored timestamp as text: the keyset cursor (a JS Date would drop microseconds). */
+  ts_key: string
+}
+
+/**
+ * One page of a booth's stored readings in [from, to), time-ordered, after the cursor `afterKey` (the
+ * ts_key of the last row of the previous page). Keyset pagination on the (booth_id, ts) primary key: each
+ * page is an index range scan, so memory and time per page stay flat however long the period.
+ */
+export async function readingPage(db: Db, boothId: number, from: Date, to: Date, afterKey: string | null, limit: number): Promise<ReadingPageRow[]> {
+  const lower = afterKey === null ? sql`ts >= ${from}` : sql`ts > ${afterKey}::timestamptz`
+  const res = await sql<ReadingPageRow>`
+    SELECT ts, ts::text AS ts_key, device_id, seq, air_temp_c, rh_pct, panel_temp_c, airflow_mps, booth_dp_pa,
+      intake_filter_dp_pa, exhaust_filter_dp_pa, heater_on, dew_point_c
+    FROM readings
+    WHERE booth_id = ${boothId} AND ${lower} AND ts < ${to}
+    ORDER BY ts
+    LIMIT ${limit}`.execute(db)
+  return res.rows
+}
+
+export async function countReadings(db: Db, boothIds: readonly number[], from: Date, to: Date): Promise<number> {
+  if (!boothIds.length) return 0
+  const r = await db
+    .selectFrom('readings')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('booth_id', 'in', [...boothIds])
+    .where('ts', '>=', from)
+    .where('ts', '<', to)
+    .executeTakeFirstOrThrow()
+  return Number(r.n)
+}
+
+/** Start of every minute in [from, to) that has a reading in any of the booths (from the rollups). */
+export async function minutesWithReadings(db: Db, boothIds: readonly number[], from: Date, to: Date): Promise<number[]> {
+  if (!boothIds.length) return []
+  const rows = await db
+    .selectFrom('readings_minute')
+    .select('minute')
+    .distinct()
+    .where('booth_id', 'in', [...boothIds])
+    .where('minute', '>=', new Date(Math.floor(from.getTime() / 60_000) * 60_000))
+    .where('minute', '<', to)
+    .where('n', '>', 0)
+    .execute()
+  return rows.map((r) => r.minute.getTime())
+}
+
+// ── jobs, coats, bakes, alerts of a period ─────────────────────────────────────────────────────────
+
+export function coatsOfBoothInPeriod(db: Db, boothId: number, from: Date, to: Date) {
+  return db
+    .selectFrom('coats')
+    .selectAll()
+    .where('booth_id', '=', boothId)
+    .where('started_at', '<', to)
+    .where((eb) => eb.or([eb('finished_at', 'is', null), eb('finished_at', '>=', from)]))
+    .orderBy('started_at')
+    .orderBy('id')
+    .execute()
+}
+
+export function coatsOfJobs(db: Db, jobIds: readonly number[]) {
+  if (!jobIds.length) return Promise.resolve([])
+  return db.selectFrom('coats').selectAll().where('job_id', 'in', [...jobIds]).orderBy('started_at').orderBy('id').execute()
+}
+
+export function jobsByIds(db: Db, ids: readonly number[]) {
+  if (!ids.length) return Promise.resolve([])
+  return db.selectFrom('jobs').selectAll().where('id', 'in', [...ids]).orderBy('id').execute()
+}
+
+/** Bakes linked to the job (bake_jobs), oldest first. */
+export async function bakeIdsOfJob(db: Db, jobId: number): Promise<number[]> {
+  const rows = await db
+    .selectFrom('bake_jobs')
+    .innerJoin('bakes', 'bakes.id', 'bake_jobs.bake_id')
+    .select('bakes.id')
+    .where('bake_jobs.job_id', '=', jobId)
+    .where('bakes.state', '!=', 'dismissed')
+    .orderBy('bakes.started_at')
+    .execute()
+  return rows.map((r) => r.id)
+}
+
+/** Bakes of the booths that overlap [from, to), oldest first. */
+export async function bakeIdsOfPeriod(db: Db, boothIds: readonly number[], from: Date, to: Date, limit = 200): Promise<number[]> {
+  if (!boothIds.length) return []
+  const rows = await db
+    .selectFrom('bakes')
+    .select('id')
+    .where('booth_id', 'in', [...boothIds])
+    .where('state', '!=', 'dismissed')
+    .where('started_at', '<', to)
+    .where((eb) => eb.or([eb('ended_at', 'is', null), eb('ended_at', '>=', from)]))
+    .orderBy('started_at')
+    .limit(limit)
+    .execute()
+  return rows.map((r) => r.id)
+}
+
+/** Alerts of the booths that were open at some time in [from, to) (opened before the end, not resolved before the start). */
+export function alertsOfPeriod(db: Db, boothIds: readonly number[], from: Date, to: Date, limit = 500) {
+  if (!boothIds.length) return Promise.resolve([])
+  return db
+    .selectFrom('alerts')
+    .innerJoin('booths', 'booths.id', 'alerts.booth_id')
+    .leftJoin('users as ack', 'ack.id', 'alerts.acknowledged_by')
+    .leftJoin('users as res', 'res.id', 'alerts.resolved_by')
+    .select([
+      'alerts.id',
+      'alerts.booth_id',
+      'alerts.severity',
+      'alerts.kind',
+      'alerts.message',
+      'alerts.state',
+      'alerts.opened_at',
+      'alerts.cleared_at',
+      'alerts.acknowledged_at',
+      'alerts.ack_note',
+      'alerts.resolved_at',
+      'alerts.resolution',
+      'alerts.resolve_note',
+      'booths.name as booth_name',
+      'ack.name as acknowledged_by_name',
+      'res.name as resolved_by_name',
+    ])
+    .where('alerts.booth_id', 'in', [...boothIds])
+    .where('alerts.opened_at', '<', to)
+    .where((eb) => eb.or([eb('alerts.resolved_at', 'is', null), eb('alerts.resolved_at', '>=', from)]))
+    .orderBy('alerts.opened_at')
+    .orderBy('alerts.id')
+    .limit(limit)
+    .execute()
+}
+
+/** Spec revisions with their product and TDS file (by SHA-256). */
+export function revisionsWithTds(db: Db, ids: readonly number[]) {
+  if (!ids.length) return Promise.resolve([])
+  return db
+    .selectFrom('spec_revisions as r')
+    .innerJoin('products as p', 'p.id', 'r.product_id')
+    .leftJoin('files as f', 'f.sha256', 'r.tds_sha256')
+    .select([
+      'r.id',
+      'r.number',
+      'r.frozen_at',
+      'r.tds_sha256',
+      'r.flash_min_minutes',
+      'r.flash_max_minutes',
+      'r.flash_before_next_minutes',
+      'r.ref_temp_c',
+      'r.recoat_window_minutes',
+      'p.name as product_name',
+      'f.original_name as tds_name',
+    ])
+    .where('r.id', 'in', [...ids])
+    .orderBy('p.name')
+    .orderBy('r.number')
+    .execute()
+}
+
+/** job.status_changed events that closed one of the jobs (status → done), for the sign-offs. */
+export function jobClosings(db: Db, jobIds: readonly number[]) {
+  if (!jobIds.length) return Promise.resolve([])
+  return db
+    .selectFrom('event_log')
+    .select(['seq', 'at', 'actor_label', 'subject_id', 'payload'])
+    .where('subject_type', '=', 'job')
+    .where('subject_id', 'in', jobIds.map(String))
+    .where('type', '=', 'job.status_changed')
+    .orderBy('seq')
+    .execute()
+}
