@@ -53,9 +53,10 @@ export function hashPairingCode(code: string): string {
   return createHash('sha256').update(`boothbeat-pairing\n${code}`).digest('hex')
 }
 
-/** PAIRING_CODE_TTL_SECONDS (server/config.ts; 1…86 400, tests use a few seconds), default 10 minutes. */
-export function pairingCodeTtlSeconds(): number {
-  return settings().PAIRING_CODE_TTL_SECONDS
+/** PAIRING_CODE_TTL_SECONDS (1…86 400; tests use a few seconds), else 10 minutes. */
+export function pairingCodeTtlSeconds(env: Record<string, string | undefined> = process.env): number {
+  const n = Number(env.PAIRING_CODE_TTL_SECONDS)
+  return Number.isInteger(n) && n >= 1 && n <= 86_400 ? n : DEFAULT_PAIRING_TTL_S
 }
 
 export async function issuePairingCode(
@@ -115,7 +116,7 @@ export async function pairScreen(db: Kysely<Database>, typed: string, now = new 
 
 /** The parts of a nuxt-auth-utils session this module reads. */
 export interface SessionLike {
-  user?: { id: number }
+  user?: { id: number; role?: string }
   screen?: { boothId: number; pairedAt: number }
 }
 
@@ -151,8 +152,10 @@ export const pinLimitKey = (userId: number) => `painter:${userId}`
 const mayAct = (u: User | undefined): u is User => !!u && !u.disabled_at && ACTOR_ROLES.includes(u.role)
 
 /** 401 unless there is a user or a paired screen. Routes call this before reading the body. */
+/** The gate before validation: someone who may act at all (the account is re-checked afterwards). */
 export function assertSessionOrScreen(session: SessionLike): void {
   if (!session.user && !session.screen) throw new ScreenError(401, 'Sign in, or pair this screen with a booth first')
+  if (session.user?.role && !(ACTOR_ROLES as readonly string[]).includes(session.user.role)) throw new ScreenError(403, 'Your role does not allow this')
 }
 
 /**

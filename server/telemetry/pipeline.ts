@@ -10,7 +10,7 @@ import { parseMode, parseTopic, validateReading, type BoothModeValue } from './w
 
 export interface PipelineSinks {
   store(row: ReadingRow): void
-  /** Extra per-reading work on accepted rows (watches); must be O(1) and must not throw. */
+  /** Extra per-reading work on accepted rows (watches, bake detection); O(1), must not throw. */
   onAccepted?(row: ReadingRow, booth: BoothEntry): void
   onMode?(boothId: number, mode: BoothModeValue, tsMs: number): void
   onStatus?(boothId: number, deviceId: string | undefined, status: string): void
@@ -76,16 +76,20 @@ export class IngestPipeline {
       heaterOn: r.heaterOn ?? null,
       dewPointC: Number.isFinite(dp) ? round(dp, 2) : null,
     }
-    if (route.live) this.live.reading(row)
+    // Screens and watches follow the live route: with a shared subscription every instance still
+    // sees every reading there, while storage gets only this instance's share.
+    if (route.live) {
+      this.live.reading(row)
+      try {
+        this.sinks.onAccepted?.(row, booth)
+      } catch (e) {
+        console.warn('[ingest] onAccepted failed:', e)
+      }
+    }
     if (!route.store) return
     this.counters.accepted++
     this.counters.lastReadingAtMs = now
     this.sinks.store(row)
-    try {
-      this.sinks.onAccepted?.(row, booth)
-    } catch (e) {
-      console.warn('[ingest] onAccepted failed:', e)
-    }
   }
 
   handleControl(topic: string, payload: Buffer): void {

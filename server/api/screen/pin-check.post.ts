@@ -6,7 +6,8 @@ import { toHttpError } from '../../domain/jobs'
 // offers the actions (each action sends the PIN again). Wrong PINs count per painter (429).
 export default defineEventHandler(async (event) => {
   const session = await getUserSession(event)
-  if (!session.screen || session.user) throw createError({ statusCode: 401, message: 'This screen is not paired with a booth' })
+  if (session.user) throw createError({ statusCode: 403, message: 'Only a paired booth screen can do this' })
+  if (!session.screen) throw createError({ statusCode: 401, message: 'This screen is not paired with a booth' })
   const body = await parseBody(event, PinCheckSchema)
   const u = await checkPin(useDb(), { hasher: passwordHasher, limiter: pinLimiter }, body.painterId, body.pin).catch(toHttpError)
   return { painter: { id: u.id, name: u.name, role: u.role } }
