@@ -11,15 +11,16 @@ export default defineConfig({
     projects: [
       {
         resolve: { alias: { '#shared': shared } },
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' },
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', sequence: { groupOrder: 0 } },
       },
       await defineVitestProject({
-        test: { name: 'nuxt', include: ['tests/nuxt/**/*.test.ts'], environment: 'nuxt' },
+        test: { name: 'nuxt', include: ['tests/nuxt/**/*.test.ts'], environment: 'nuxt', sequence: { groupOrder: 1 } },
       }),
       {
         resolve: { alias: { '#shared': shared } },
         test: {
           name: 'integration',
+          sequence: { groupOrder: 2 },
           include: ['tests/integration/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/support/global-setup.ts'],
@@ -33,6 +34,7 @@ export default defineConfig({
         resolve: { alias: { '#shared': shared } },
         test: {
           name: 'browser',
+          sequence: { groupOrder: 3 },
           include: ['tests/browser/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/support/global-setup.ts'],

@@ -108,7 +108,7 @@ interface Run {
   peakMiB: number
 }
 
-async function download(name: string, path: string): Promise<Run> {
+async function download(name: string, path: string, countLines: boolean): Promise<Run> {
   const baseMiB = await settle()
   let peakMiB = baseMiB
   const sampler = setInterval(() => (peakMiB = Math.max(peakMiB, memoryOf(pid).rssMiB)), 50)
@@ -117,9 +117,9 @@ async function download(name: string, path: string): Promise<Run> {
   if (res.status !== 200 || !res.body) throw new Error(`${path}: HTTP ${res.status} ${await res.text()}`)
   let bytes = 0
   let lines = 0
-  for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) {
+  for await (const chunk of res.body as unknown as AsyncIterable<Buffer>) {
     bytes += chunk.length
-    for (let i = 0; i < chunk.length; i++) if (chunk[i] === 10) lines++
+    if (countLines) for (let i = chunk.indexOf(10); i !== -1; i = chunk.indexOf(10, i + 1)) lines++
   }
   const seconds = (performance.now() - began) / 1000
   clearInterval(sampler)
@@ -128,8 +128,8 @@ async function download(name: string, path: string): Promise<Run> {
 }
 
 const q = new URLSearchParams({ boothId: String(booth!.id), from: new Date(start).toISOString(), to: new Date(end).toISOString() }).toString()
-const csv = await download('CSV (environment log)', `/api/evidence/environment-log?${q}`)
-const zip = await download('zip (evidence pack)', `/api/evidence/pack?${q}`)
+const csv = await download('CSV (environment log)', `/api/evidence/environment-log?${q}`, true)
+const zip = await download('zip (evidence pack)', `/api/evidence/pack?${q}`, false)
 const { rows: recorded } = await pool.query<{ kind: string; reading_count: string }>(`SELECT kind, reading_count FROM exports ORDER BY exported_at`)
 await app.stop()
 await pool.end()

@@ -19,23 +19,31 @@ import { CHANNELS } from '../db/channels'
 
 type Channel = (typeof CHANNELS)[number]
 
+/**
+ * A stored reading as the export reads it: every value as PostgreSQL's text output (a float4 comes back
+ * as its shortest exact decimal, e.g. "21.4"), so raw values are written exactly as stored and nothing is
+ * parsed that is not computed with. (Reading typed rows promoted every row to V8's old generation and made
+ * the server's memory swing by hundreds of MB on a long export; text rows die young.)
+ */
 export interface ExportReadingRow {
-  ts: Date
+  /** ISO 8601 UTC with milliseconds. */
+  ts_iso: string
   device_id: string
-  seq: number | null
-  air_temp_c: number | null
-  rh_pct: number | null
-  panel_temp_c: number | null
-  airflow_mps: number | null
-  booth_dp_pa: number | null
-  intake_filter_dp_pa: number | null
-  exhaust_filter_dp_pa: number | null
-  heater_on: boolean | null
-  dew_point_c: number | null
+  seq: string | null
+  air_temp_c: string | null
+  rh_pct: string | null
+  panel_temp_c: string | null
+  airflow_mps: string | null
+  booth_dp_pa: string | null
+  intake_filter_dp_pa: string | null
+  exhaust_filter_dp_pa: string | null
+  /** PostgreSQL's boolean text: 't' / 'f'. */
+  heater_on: string | null
+  dew_point_c: string | null
 }
 
-/** Calibration of a value of `channel` at tsMs (null stays null). */
-export type Calibrate = (channel: CalibratedChannel, tsMs: number, value: number | null) => number | null
+/** Calibration of a value of `channel` at tsMs (null stays null); null when the booth has no calibrations. */
+export type Calibrate = ((channel: CalibratedChannel, tsMs: number, value: number | null) => number | null) | null
 
 export const CSV_FORMAT = {
   mediaType: 'text/csv; charset=utf-8; header=present',
@@ -44,7 +52,7 @@ export const CSV_FORMAT = {
   recordSeparator: 'CRLF',
   times: 'ISO 8601, UTC',
   units: 'SI; header names carry the unit in brackets',
-  values: 'calibrated at read time; *_raw columns hold the stored values when the booth has calibrations',
+  values: 'calibrated at read time; *_raw columns hold the stored values when a booth in the export has calibrations',
   formulaGuard: "text cells starting with = + - @ TAB or CR are prefixed with ' (OWASP CSV injection)",
 } as const
 
@@ -71,39 +79,56 @@ export function neutraliseText(s: string): string {
 
 // Calibrated values carry the float noise of an addition (21.4 + 0.3); three decimals is finer than any
 // booth sensor resolves. Raw values are written exactly as stored.
-const round3 = (v: number | null) => (v === null ? null : Math.round(v * 1000) / 1000)
+const round3 = (v: number) => Math.round(v * 1000) / 1000
 const round2 = (v: number) => Math.round(v * 100) / 100
 
 const COLUMN_OF = Object.fromEntries(CHANNELS.map((c) => [c.wire, c.column])) as Record<CalibratedChannel, Channel['column']>
 const CALIBRATED = CALIBRATED_CHANNELS.map((wire) => ({ wire, column: COLUMN_OF[wire] }))
+if (CALIBRATED.some((c, i) => c.column !== CHANNELS[i]?.column)) throw new Error('CALIBRATED_CHANNELS must list the channels in CHANNELS order')
 
 export type CsvCell = string | number | null
 
 /** One CSV record (cells in csvColumns order) from a stored reading. */
+const num = (v: string | null): number | null => {
+  if (v === null) return null
+  const n = Number(v)
+  return Number.isFinite(n) ? n : null
+}
+
+/** One CSV record (cells in csvColumns order) from a stored reading. Numeric cells are numbers or their stored text. */
 export function csvRecord(row: ExportReadingRow, boothSlug: string, calibrate: Calibrate, includeRaw: boolean): CsvCell[] {
-  const t = row.ts.getTime()
-  const cal: Record<string, number | null> = {}
+  const cells: CsvCell[] = [row.ts_iso, neutraliseText(boothSlug), neutraliseText(row.device_id), row.seq]
+  let air = num(row.air_temp_c)
+  let rh = num(row.rh_pct)
+  let panel = num(row.panel_temp_c)
   let moved = false
-  for (const c of CALIBRATED) {
-    const raw = row[c.column]
-    const v = calibrate(c.wire, t, raw)
-    if (v !== raw) {
-      cal[c.column] = round3(v)
-      if (c.wire === 'airTempC' || c.wire === 'rhPct') moved = true
-    } else cal[c.column] = raw
+  if (calibrate) {
+    const t = Date.parse(row.ts_iso)
+    for (const c of CALIBRATED) {
+      const text = row[c.column]
+      const raw = num(text)
+      const v = calibrate(c.wire, t, raw)
+      if (v !== raw && v !== null) {
+        const r = round3(v)
+        cells.push(r)
+        if (c.wire === 'airTempC') air = r
+        else if (c.wire === 'rhPct') rh = r
+        else if (c.wire === 'panelTempC') panel = r
+        if (c.wire === 'airTempC' || c.wire === 'rhPct') moved = true
+      } else cells.push(text)
+    }
+  } else {
+    for (const c of CHANNELS) cells.push(row[c.column])
   }
-  let dew = row.dew_point_c
+  let dew: CsvCell = row.dew_point_c
+  let dewNum = num(row.dew_point_c)
   if (moved) {
-    const air = cal.air_temp_c ?? null
-    const rh = cal.rh_pct ?? null
     const dp = air !== null && rh !== null && rh > 0 ? dewPointC(air, Math.min(100, rh)) : Number.NaN
-    dew = Number.isFinite(dp) ? round2(dp) : null
+    dewNum = Number.isFinite(dp) ? round2(dp) : null
+    dew = dewNum
   }
-  const surface = cal.panel_temp_c ?? cal.air_temp_c ?? null
-  const margin = surface !== null && dew !== null ? round2(surface - dew) : null
-  const cells: CsvCell[] = [row.ts.toISOString(), neutraliseText(boothSlug), neutraliseText(row.device_id), row.seq]
-  for (const c of CHANNELS) cells.push(cal[c.column] ?? null)
-  cells.push(dew, margin, row.heater_on === null ? null : row.heater_on ? 'true' : 'false')
+  const surface = panel ?? air
+  cells.push(dew, surface !== null && dewNum !== null ? round2(surface - dewNum) : null, row.heater_on === null ? null : row.heater_on === 't' ? 'true' : 'false')
   if (includeRaw) {
     for (const c of CHANNELS) cells.push(row[c.column])
     cells.push(row.dew_point_c)

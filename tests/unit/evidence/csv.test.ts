@@ -1,32 +1,26 @@
 import { describe, expect, it } from 'vitest'
-import { Readable } from 'node:stream'
 import { parse } from 'csv-parse/sync'
-import { csvColumns, csvRecord, csvStringifier, neutraliseText, type CsvCell, type ExportReadingRow } from '../../../server/evidence/csv'
+import { csvColumns, csvRecord, csvText, neutraliseText, type CsvCell, type ExportReadingRow } from '../../../server/evidence/csv'
 
-async function toCsv(records: CsvCell[][]): Promise<string> {
-  const s = csvStringifier()
-  Readable.from(records).pipe(s)
-  const chunks: Buffer[] = []
-  for await (const c of s) chunks.push(Buffer.from(c as Buffer))
-  return Buffer.concat(chunks).toString('utf8')
-}
+// As the export writes it: the header chunk with the byte-order mark, then pages of records.
+const toCsv = async (records: CsvCell[][]) => csvText(records.slice(0, 1), { bom: true }) + csvText(records.slice(1))
 
 const row = (over: Partial<ExportReadingRow> = {}): ExportReadingRow => ({
-  ts: new Date('2026-11-30T08:00:00.000Z'),
+  ts_iso: '2026-11-30T08:00:00.000Z',
   device_id: 'larkspur-downdraft-1',
-  seq: 7,
-  air_temp_c: 21.4,
-  rh_pct: 50,
+  seq: '7',
+  air_temp_c: '21.4',
+  rh_pct: '50',
   panel_temp_c: null,
-  airflow_mps: 0.41,
-  booth_dp_pa: -3.5,
-  intake_filter_dp_pa: 95,
-  exhaust_filter_dp_pa: 140,
-  heater_on: false,
-  dew_point_c: 10.6,
+  airflow_mps: '0.41',
+  booth_dp_pa: '-3.5',
+  intake_filter_dp_pa: '95',
+  exhaust_filter_dp_pa: '140',
+  heater_on: 'f',
+  dew_point_c: '10.6',
   ...over,
 })
-const none = (_c: string, _t: number, v: number | null) => v
+const none = null
 
 describe('environment log CSV (RFC 4180)', () => {
   it('ends every record with CRLF and quotes fields with a comma, a quote, CR or LF, doubling quotes', async () => {
@@ -59,7 +53,7 @@ describe('environment log CSV (RFC 4180)', () => {
   it('leaves numbers untouched (a negative pressure stays a number) but guards text cells', async () => {
     const rec = csvRecord(row({ device_id: '=HYPERLINK("http://x","y")' }), '@booth', none, false)
     const cols = csvColumns(false)
-    expect(rec[cols.indexOf('booth_dp_pa [Pa]')]).toBe(-3.5)
+    expect(rec[cols.indexOf('booth_dp_pa [Pa]')]).toBe('-3.5')
     expect(rec[cols.indexOf('device_id')]).toBe(`'=HYPERLINK("http://x","y")`)
     expect(rec[cols.indexOf('booth')]).toBe("'@booth")
     const text = await toCsv([cols, rec])
@@ -71,7 +65,7 @@ describe('environment log CSV (RFC 4180)', () => {
 
   it('writes ISO 8601 UTC times, empty cells for missing values, true/false for the heater', () => {
     const cols = csvColumns(false)
-    const rec = csvRecord(row({ heater_on: true }), 'downdraft-1', none, false)
+    const rec = csvRecord(row({ heater_on: 't' }), 'downdraft-1', none, false)
     expect(rec[0]).toBe('2026-11-30T08:00:00.000Z')
     expect(rec[cols.indexOf('panel_temp_c [°C]')]).toBeNull()
     expect(rec[cols.indexOf('heater_on [true/false]')]).toBe('true')
@@ -81,11 +75,12 @@ describe('environment log CSV (RFC 4180)', () => {
 
   it('applies calibration offsets, recomputes the dew point and keeps the raw values beside them', () => {
     const cols = csvColumns(true)
-    const plus = (c: string, _t: number, v: number | null) => (v === null ? v : c === 'airTempC' ? v + 0.3 : v)
+    const plus = (c: string, t: number, v: number | null) => (v === null || t !== Date.parse('2026-11-30T08:00:00.000Z') ? v : c === 'airTempC' ? v + 0.3 : v)
     const rec = csvRecord(row(), 'downdraft-1', plus, true)
     expect(rec[cols.indexOf('air_temp_c [°C]')]).toBe(21.7)
-    expect(rec[cols.indexOf('air_temp_c_raw [°C]')]).toBe(21.4)
-    expect(rec[cols.indexOf('dew_point_c_raw [°C]')]).toBe(10.6)
+    expect(rec[cols.indexOf('rh_pct [%]')]).toBe('50')
+    expect(rec[cols.indexOf('air_temp_c_raw [°C]')]).toBe('21.4')
+    expect(rec[cols.indexOf('dew_point_c_raw [°C]')]).toBe('10.6')
     // Dew point of 21.7 °C / 50 %: 10.82 °C (Magnus form, a = 17.625, b = 243.04 °C, Alduchov & Eskridge 1996; worked by hand).
     expect(rec[cols.indexOf('dew_point_c [°C]')] as number).toBeCloseTo(10.82, 1)
     expect(rec).toHaveLength(cols.length)
