@@ -46,7 +46,7 @@ const env: Record<string, string> = {
   MQTT_DEVICE_MSG_RATE: '1000000',
   MQTT_DEVICE_MSG_BURST: '1000000',
   INGEST_SPOOL_DIR: `/tmp/boothbeat-bench-spool-${process.pid}`,
-  BOOTHBEAT_WATCHES: process.env.BOOTHBEAT_WATCHES ?? 'on',
+  BOOTHBEAT_ALERTS: process.env.BOOTHBEAT_ALERTS ?? 'on',
 }
 // First start migrates and seeds; then the bench booths are added and the app restarted so its
 // booth directory holds them from the first message.
@@ -188,6 +188,6 @@ ${apps.map((_, i) => `  app ${INSTANCES > 1 ? `#${i + 1} (subscriber)` : '(broke
 ${brokerMem ? `  Mosquitto RSS                ${fmt(brokerMem.rssMiB)} MiB (peak ${fmt(brokerMem.peakMiB)} MiB)\n` : ''}  bench publisher RSS          ${fmt(benchMem.rssMiB)} MiB (peak ${fmt(benchMem.peakMiB)} MiB)
   COPY ceiling                 ${fmt(copyRate)} rows/s (${fmt(copyMs)} ms for ${fmt(expected)} rows)
   pipeline / COPY              ${fmt((rate / copyRate) * 100, 1)} %
-  watches                      ${env.BOOTHBEAT_WATCHES}
+  watches and alerts           ${env.BOOTHBEAT_ALERTS}
 `)
 process.exit(expected - stored === 0 ? 0 : 1)
