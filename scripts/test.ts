@@ -29,7 +29,7 @@ try {
       numTodoTests: number
     }
     // A file that fails before its tests run counts as a failure too.
-    const failures = r.numFailedTests + r.numFailedTestSuites
+    const failures = r.numFailedTests || r.numFailedTestSuites
     console.log(`\nvitest: ${r.numPassedTests} passed, ${failures} failed, ${r.numPendingTests + r.numTodoTests} skipped`)
     if (r.numPassedTests === 0) failed = true
   }

@@ -13,7 +13,8 @@ export default defineEventHandler(async (event) => {
   }
   const components = componentStates()
   const telemetry = healthOfTelemetry()
-  const up = database.up && telemetry.up
+  // Every component that announced itself (alerts, bakes …) must have finished starting.
+  const up = database.up && telemetry.up && Object.values(components).every((c) => c.up)
   setResponseStatus(event, up ? 200 : 503)
   return { status: up ? 'ok' : 'degraded', database, ...telemetry.body, components }
 })

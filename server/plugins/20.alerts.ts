@@ -66,6 +66,7 @@ export default defineNitroPlugin((nitro) => {
   )
   const timers: NodeJS.Timeout[] = []
 
+  setComponentState('alerts', false, 'starting')
   const started = databaseReady()
     .then(async () => {
       timers.push(setInterval(() => void notifier.run(), 1_000))

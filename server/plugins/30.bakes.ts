@@ -9,17 +9,22 @@ export default defineNitroPlugin((nitro) => {
   let detector: BakeDetector | undefined
   let unhook: (() => void) | undefined
   let reload: ReturnType<typeof setInterval> | undefined
+  setComponentState('bakes', false, 'starting')
   const started = databaseReady()
     .then(async () => {
       await reloadCalibrations(db)
       reload = setInterval(() => reloadCalibrations(db).catch((e: unknown) => console.warn('[calibration] reload failed:', e instanceof Error ? e.message : e)), 30_000)
-      if (process.env.BOOTHBEAT_TELEMETRY === 'off') return
+      if (process.env.BOOTHBEAT_TELEMETRY === 'off') return setComponentState('bakes', true, 'not detecting: telemetry is off')
       detector = new BakeDetector(db)
       await detector.init()
       detector.start()
       unhook = setTelemetryHooks(detector.hooks())
+      setComponentState('bakes', true)
     })
-    .catch((e: unknown) => console.error('[bakes] start failed:', e))
+    .catch((e: unknown) => {
+      setComponentState('bakes', false, e instanceof Error ? e.message : String(e))
+      console.error('[bakes] start failed:', e)
+    })
   nitro.hooks.hook('close', async () => {
     await started
     if (reload) clearInterval(reload)
