@@ -69,6 +69,8 @@ const PAGE_SQL = (after: boolean) => `
  */
 export async function readingPage(pool: pg.Pool, boothId: number, from: Date, to: Date, afterKey: string | null, limit: number): Promise<ReadingPageRow[]> {
   const res = await pool.query<ReadingPageRow>({
+    // Prepared once per connection (named): a page is small, so parse and plan would be much of its cost.
+    name: afterKey === null ? 'evidence-reading-first-page' : 'evidence-reading-next-page',
     text: PAGE_SQL(afterKey !== null),
     values: [boothId, afterKey ?? from.toISOString(), to.toISOString(), limit],
     types: TEXT_TYPES,
