@@ -81,6 +81,16 @@ if (!process.env.MQTT_URL && process.env.DEMO_SIMULATOR !== 'off') {
     seed: Number(process.env.DEMO_SEED_NUMBER ?? 7),
     password: devicePassword,
     humidityDriftPct: Number(process.env.DEMO_HUMIDITY_DRIFT ?? 4),
+    // The demo's weather: steady outside air (a small daily swing and random walk, so ×30 time compression does
+    // not turn it into noise) with a humid spell every ~50 minutes: it rises 10 points in about 5 minutes, stays
+    // 2 minutes and goes. Every booth sees it through its air intake; the drift watches open within about 10
+    // minutes and resolve about 20–35 minutes in, once the booths are back at their usual level.
+    model: {
+      humidityMeanPct: 58,
+      humidityDailyAmplitudePct: 1.5,
+      humidityWalkSdPct: 1,
+      humidityDriftEpisodes: { peakPct: Number(process.env.DEMO_HUMIDITY_DRIFT_PEAK ?? 10), holdHours: 1, restHours: 20 },
+    },
     log: (line: string) => console.log(`[simulator] ${line}`),
     summaryIntervalMs: 60_000,
   })

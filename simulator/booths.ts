@@ -125,7 +125,7 @@ const PREP_DECK: BoothProfile = {
   coolMaxMin: 20,
   airflowMps: { idle: 0.03, spray: 0.3, flash: 0.18, bake: 0.18, cool: 0.25 },
   boothDpPa: { idle: 0.5, spray: 2.0, flash: 1.2, bake: 1.2, cool: 1.5 },
-  airAboveAmbientK: { idle: 0.3, spray: 0.8, flash: 0.5, cool: 0 },
+  airAboveAmbientK: { idle: 0.8, spray: 1.5, flash: 1.0, cool: 0 },
   airTauS: { idle: 300, spray: 150, flash: 200, bake: 200, cool: 200 },
   panelTauS: 480,
   intakeFilterStartPa: [40, 70],

@@ -21,6 +21,7 @@ export const USAGE = `Usage: npm run simulate -- [options]
   --site SLUG          site slug (default ${DEMO_SITE})
   --password P         device password (default: DEMO_DEVICE_PASSWORD)
   --humidity-drift P   intake RH trend, percentage points per simulated hour (default 0)
+  --drift-peak P       the drift comes and goes: up to P points, an hour there, back, two hours' rest (repeats)
   --no-dropouts        no missing channels or message gaps
   --summary SEC        seconds between summary lines (default 10; 0 = off)
   --quiet              only errors and the final line
@@ -121,6 +122,11 @@ export function parseCliArgs(argv: readonly string[], env: NodeJS.ProcessEnv = p
       case '--humidity-drift':
         sim.humidityDriftPct = parseNumber(flag, value(), (n) => Math.abs(n) <= 1000, 'percentage points per simulated hour')
         break
+      case '--drift-peak': {
+        const peakPct = parseNumber(flag, value(), (n) => n > 0 && n <= 100, 'percentage points within (0, 100]')
+        sim.model = { ...sim.model, humidityDriftEpisodes: { peakPct, holdHours: 1, restHours: 2 } }
+        break
+      }
       case '--no-dropouts':
         sim.dropouts = false
         break

@@ -7,7 +7,7 @@
 // - Cycle: idle → spray → flash → (spray → flash)… → bake ramp → bake hold → cool → idle (downdraft booths);
 //   the prep deck goes idle → spray → flash → … → idle without bake. Bake ramp and hold both report mode "bake".
 // - Shop ambient air: daily sinusoid of temperature and relative humidity (RH), plus a mean-reverting random
-//   walk (Ornstein–Uhlenbeck) on RH and an optional linear RH trend (`humidityDriftPct`).
+//   walk (Ornstein–Uhlenbeck) on RH and an optional RH trend (`humidityDriftPct`), steady or in episodes (drift.ts).
 // - Booth air temperature: first-order lag towards the mode's target (ambient + a little, or the bake set point).
 //   Panel (object) temperature: first-order lag towards the air temperature. Lags use the exact discretisation
 //   x += (target − x)(1 − e^(−dt/τ)), so they stay stable at any speed.
@@ -20,6 +20,7 @@
 //   message), a fixed per-booth device clock skew, and on request broken messages (see faults.ts).
 
 import { kindForBooth, profileFor, type BoothKind, type BoothProfile } from './booths'
+import { driftTrendPct, type DriftEpisodes } from './drift'
 import { makeFault, type FaultKind } from './faults'
 import { hashSeed, Random, type SeedInput } from './prng'
 import {
@@ -71,8 +72,15 @@ export interface BoothModelOptions {
    * booth RH by roughly 4 points every two minutes, enough for a humidity drift alert in a short demo.
    */
   humidityDriftPct?: number
+  /**
+   * When set, the humidity drift comes in episodes (weather that comes and goes) instead of a trend for ever:
+   * it rises at `humidityDriftPct` up to `peakPct`, holds, falls back at the same rate and rests.
+   */
+  humidityDriftEpisodes?: DriftEpisodes
   /** Amplitude of the daily intake RH swing, percentage points. Default 6. */
   humidityDailyAmplitudePct?: number
+  /** Spread (stationary standard deviation) of the intake RH random walk, percentage points. Default 2.5. */
+  humidityWalkSdPct?: number
   /** Mean intake RH, %. Default 60. */
   humidityMeanPct?: number
   /** Phase at start; default drawn from the seed (idle, spray or flash, part-way through). */
@@ -164,7 +172,7 @@ export function rhFromVapour(vapourHpa: number, tempC: number): number {
 
 const SUBSTEP_MAX_S = 10
 const SUBSTEPS_MAX = 5000
-/** Random-walk parameters of the intake RH: stationary standard deviation (points) and reversion time (s). */
+/** Random-walk parameters of the intake RH: default stationary standard deviation (points), reversion time (s). */
 const RH_WALK_SD = 2.5
 const RH_WALK_TAU_S = 6 * 3600
 const AMBIENT_MEAN_C = 19
@@ -221,6 +229,7 @@ export function createBoothModel(options: BoothModelOptions): BoothModel {
   const humidityDriftPct = finiteOr(options.humidityDriftPct, 0, 'humidityDriftPct')
   const humidityAmplitude = finiteOr(options.humidityDailyAmplitudePct, 6, 'humidityDailyAmplitudePct')
   const humidityMean = finiteOr(options.humidityMeanPct, 60, 'humidityMeanPct')
+  const walkSd = Math.max(0, finiteOr(options.humidityWalkSdPct, RH_WALK_SD, 'humidityWalkSdPct'))
   const startHour = finiteOr(options.startHourOfDay, 8, 'startHourOfDay')
 
   // Independent streams, so that e.g. turning faults on does not change the clean series.
@@ -247,7 +256,7 @@ export function createBoothModel(options: BoothModelOptions): BoothModel {
   let phaseDurationS = 0
   let coat = 0
   let coatsPlanned = 0
-  let rhWalk = rngEnv.normal(0, RH_WALK_SD * 0.5)
+  let rhWalk = rngEnv.normal(0, walkSd * 0.5)
   let intakeLoad = rngSetup.uniform(...profile.intakeFilterStartPa)
   let exhaustLoad = rngSetup.uniform(...profile.exhaustFilterStartPa)
   let seq = Math.max(0, Math.trunc(finiteOr(options.startSeq, 1, 'startSeq')))
@@ -270,7 +279,7 @@ export function createBoothModel(options: BoothModelOptions): BoothModel {
   function intakeRhPct(): number {
     // Most humid in the early morning, driest mid-afternoon.
     const daily = -humidityAmplitude * Math.sin((2 * Math.PI * (hourOfDay() - 9)) / 24)
-    const trend = humidityDriftPct * (simElapsedS / 3600)
+    const trend = driftTrendPct(simElapsedS / 3600, humidityDriftPct, options.humidityDriftEpisodes)
     return clamp(humidityMean + daily + rhWalk + trend, 10, 95)
   }
   function vapourHpa(): number {
@@ -386,7 +395,7 @@ export function createBoothModel(options: BoothModelOptions): BoothModel {
     simElapsedS += dtS
     // Intake RH random walk (exact Ornstein–Uhlenbeck step).
     const decay = Math.exp(-dtS / RH_WALK_TAU_S)
-    rhWalk = rhWalk * decay + RH_WALK_SD * Math.sqrt(1 - decay * decay) * rngEnv.normal()
+    rhWalk = rhWalk * decay + walkSd * Math.sqrt(1 - decay * decay) * rngEnv.normal()
 
     const key = modeKey(phase)
     airTempC = override.airTempC ?? lag(airTempC, airTarget(), dtS, profile.airTauS[key])

@@ -28,7 +28,7 @@ import {
   resolveActiveOnClear,
   resolveForRemovedWatches,
 } from '../repositories/alerts'
-import { listBooths } from '../repositories/booths'
+import { findBooth, listBooths } from '../repositories/booths'
 import { findWatchSet, listWatchSetVersions, listWatchSets, listWatchStates, saveWatchState } from '../repositories/watches'
 import type { ReadingRow } from '../telemetry/reading-row'
 import { ApplicationWindowSchema, ApplicationWindowWatch, type AppWindowEvent, type ApplicationWindowLimits } from './application-window'
@@ -64,6 +64,8 @@ interface BoothState {
   boothId: number
   /** watch_sets.version, or null when the booth uses the shop defaults. */
   version: number | null
+  /** Set for a booth first seen after start: it runs the downdraft defaults until its kind and set are loaded. */
+  provisional?: true
   watches: BoothWatch[]
   byId: Map<string, BoothWatch>
   evaluator: BoothEvaluator
@@ -138,7 +140,7 @@ export class AlertRuntime {
       const set = sets.find((s) => s.booth_id === b.id)
       const st = states.find((s) => s.booth_id === b.id)
       const init = initial.find((i) => i.boothId === b.id)
-      const watches = set ? fromStored(set.rules).watches : defaultWatches()
+      const watches = set ? fromStored(set.rules).watches : defaultWatches(b.kind)
       const state = this.build(b.id, watches, set?.version ?? null, init ?? null)
       if (st) {
         state.evaluator.restore(st.snapshot)
@@ -195,11 +197,12 @@ export class AlertRuntime {
     if (isBoothMode(mode)) this.ensure(boothId).mode = mode
   }
 
-  /** A booth added since start gets the shop defaults now, and its own set at the next version check. */
+  /** A booth added since start gets the downdraft defaults now, and its kind's defaults or its own set at the
+   * next version check. */
   private ensure(boothId: number): BoothState {
     let b = this.booths.get(boothId)
     if (!b) {
-      b = this.build(boothId, defaultWatches(), null, null)
+      b = { ...this.build(boothId, defaultWatches(), null, null), provisional: true }
       this.booths.set(boothId, b)
       this.lastVersionCheckAt = 0
     }
@@ -225,8 +228,8 @@ export class AlertRuntime {
 
   /** Rebuilds a booth's evaluator from its stored watch set, keeping the state of watches that stay. */
   async reloadBooth(boothId: number): Promise<void> {
-    const set = await findWatchSet(this.db, boothId)
-    const watches = set ? fromStored(set.rules).watches : defaultWatches()
+    const [set, booth] = await Promise.all([findWatchSet(this.db, boothId), findBooth(this.db, boothId)])
+    const watches = set ? fromStored(set.rules).watches : defaultWatches(booth?.kind)
     this.replaceWatches(boothId, watches, set?.version ?? null)
   }
 
@@ -432,7 +435,7 @@ export class AlertRuntime {
     for (const id of ids) {
       const stored = versions.find((v) => v.booth_id === id)?.version ?? null
       const b = this.booths.get(id)
-      if (!b || b.version !== stored) await this.reloadBooth(id)
+      if (!b || b.provisional || b.version !== stored) await this.reloadBooth(id)
     }
   }
 }

@@ -162,7 +162,7 @@ export async function boothWatches(db: Db, boothId: number) {
   const booth = await findBooth(db, boothId)
   if (!booth) throw new AlertError(404, 'No such booth')
   const set = await findWatchSet(db, boothId)
-  const watches = set ? fromStored(set.rules).watches : defaultWatches()
+  const watches = set ? fromStored(set.rules).watches : defaultWatches(booth.kind)
   return {
     booth: { id: booth.id, name: booth.name, slug: booth.slug, hasHeater: booth.has_heater },
     source: set ? ('booth' as const) : ('defaults' as const),
@@ -176,8 +176,8 @@ export async function boothWatches(db: Db, boothId: number) {
 
 export async function allBoothWatches(db: Db) {
   const [booths, sets] = await Promise.all([listBooths(db), listWatchSets(db)])
-  const defaultsCount = defaultWatchRules().length
   return booths.map((b) => {
+    const defaultsCount = defaultWatchRules(b.kind).length
     const set = sets.find((s) => s.booth_id === b.id)
     const watches = set ? fromStored(set.rules).watches : null
     return {

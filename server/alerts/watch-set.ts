@@ -2,7 +2,7 @@
 // e-mails go to. Stored as JSON in watch_sets; a booth without a row uses the shop defaults.
 
 import { z } from 'zod'
-import { defaultWatchRules, WatchRuleSchema, type WatchRule } from '#shared/watch'
+import { defaultWatchRules, WatchRuleSchema, type WatchDefaultsKind, type WatchRule } from '#shared/watch'
 import type { StoredWatch } from '../db/tables/alerts'
 import { APPLICATION_WINDOW_RULES } from './application-window'
 
@@ -68,8 +68,8 @@ export function fromStored(stored: unknown): { watches: BoothWatch[]; skipped: n
   return { watches, skipped }
 }
 
-export function defaultWatches(): BoothWatch[] {
-  return defaultWatchRules().map((rule) => ({ rule, recipients: [] }))
+export function defaultWatches(boothKind?: WatchDefaultsKind): BoothWatch[] {
+  return defaultWatchRules(boothKind).map((rule) => ({ rule, recipients: [] }))
 }
 
 /** Reserved rule ids of the application window (not editable as watches). */

@@ -118,16 +118,6 @@ export function stepCusum(params: CusumParams, state: CusumState, x: number | nu
   return { state: { hi, lo, open: side, peak } }
 }
 
-/** Ends an open alert without a value (the rule stopped applying) and resets the sums, as any clear does. */
-export function forceClearCusum(state: CusumState): CusumStep {
-  if (state.open === null) return { state }
-  const sum = state.open === 'high' ? state.hi : state.lo
-  return {
-    state: createCusumState(),
-    event: { type: 'clear', side: state.open, value: null, sum, peak: state.peak ?? Number.NaN },
-  }
-}
-
 /** Batch form over a whole series, built on stepCusum so both agree. Non-finite values repeat the last sums. */
 export function cusumSeries(params: CusumParams, xs: readonly number[]): CusumPoint[] {
   let state = createCusumState()

@@ -3,7 +3,7 @@
 // all state is plain JSON (snapshot/restore) so a restarted ingest resumes exactly where it stopped.
 
 import { checkBake, createBakeState, endBake, startBake, stepBake, type BakeRule, type BakeState } from './bake'
-import { createCusumState, forceClearCusum, stepCusum, type CusumParams, type CusumState } from './cusum'
+import { createCusumState, stepCusum, type CusumParams, type CusumState } from './cusum'
 import { bakeMessage, cusumMessage, silenceMessage, thresholdMessage } from './message'
 import {
   channelValue,
@@ -267,13 +267,12 @@ function cusumWatch(
   }
   return {
     rule,
-    modeChanged(prev, next, t) {
+    modeChanged(prev, next) {
       if (!isActive(modes, prev) || isActive(modes, next)) return
-      // A subgroup never mixes readings from different modes; the sums carry over unless an alert was open.
+      // A subgroup never mixes readings from different modes. The sums and an open drift alert hold while the
+      // booth bakes or stands idle: a drifting air supply is still drifting after a bake, so the alert clears only
+      // when readings in the watched modes show the humidity back at its target.
       g = createSubgroupState()
-      const step = forceClearCusum(s)
-      s = step.state
-      relay(step.event, t)
     },
     reading(reading, mode) {
       if (!isActive(modes, mode)) return

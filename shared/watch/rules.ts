@@ -53,6 +53,18 @@ export const WATCH_DEFAULTS = {
   },
 } as const
 
+// A prep deck (an open-front or curtained prep station) moves less air and holds only a slight overpressure, so
+// the downdraft figures above would alarm all day there. Common practice puts prep stations around 0.25 m/s at the
+// work and just above neutral pressure; 0.25 m/s and 0.5–10 Pa are demo values in that range (from memory, no
+// single source). Only the fields that differ are listed.
+export const PREP_DECK_WATCH_DEFAULTS = {
+  airflow_min_in_spray: { minMps: 0.25 },
+  booth_pressure_band: { lowPa: 0.5, highPa: 10 },
+} as const
+
+/** Booth kinds whose shop defaults differ from the downdraft figures (the booths table's kind). */
+export type WatchDefaultsKind = 'downdraft' | 'semi_downdraft' | 'crossdraft' | 'prep_deck'
+
 // Booth modes in which a watch applies by default. Heating in bake drives RH far down and temperature up, and an
 // idle booth has its fans off: those readings say nothing about painting conditions.
 export const DEFAULT_ACTIVE_WHEN = {
@@ -327,14 +339,18 @@ export const WATCH_KIND_LABELS: Record<WatchKind, string> = {
   rh_cusum: 'Humidity drift',
 }
 
-/** A new booth's rule set: every kind once, filters once per bank, all at the shop defaults. */
-export function defaultWatchRules(): WatchRule[] {
+/**
+ * A new booth's rule set: every kind once, filters once per bank, all at the shop defaults for its kind of booth
+ * (a prep deck has its own airflow and pressure figures; the others use the downdraft ones).
+ */
+export function defaultWatchRules(boothKind: WatchDefaultsKind = 'downdraft'): WatchRule[] {
+  const prep = boothKind === 'prep_deck'
   const inputs: WatchRuleInput[] = [
     { id: 'rh-band', kind: 'rh_band' },
     { id: 'air-temp-band', kind: 'air_temp_band' },
     { id: 'dew-point-margin', kind: 'dew_point_margin' },
-    { id: 'airflow-min', kind: 'airflow_min_in_spray' },
-    { id: 'booth-pressure', kind: 'booth_pressure_band' },
+    { id: 'airflow-min', kind: 'airflow_min_in_spray', ...(prep && { params: { ...PREP_DECK_WATCH_DEFAULTS.airflow_min_in_spray } }) },
+    { id: 'booth-pressure', kind: 'booth_pressure_band', ...(prep && { params: { ...PREP_DECK_WATCH_DEFAULTS.booth_pressure_band } }) },
     { id: 'intake-filter', kind: 'filter_dp_max', channel: 'intakeFilterDpPa' },
     { id: 'exhaust-filter', kind: 'filter_dp_max', channel: 'exhaustFilterDpPa', params: { maxPa: D.filter_dp_max.exhaustMaxPa } },
     { id: 'sensor-silence', kind: 'sensor_silence' },

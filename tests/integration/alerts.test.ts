@@ -120,6 +120,11 @@ describe('watch sets', () => {
     expect(got.body.watches.map((w) => w.kind)).toEqual(
       expect.arrayContaining(['rh_band', 'air_temp_band', 'dew_point_margin', 'airflow_min_in_spray', 'booth_pressure_band', 'filter_dp_max', 'sensor_silence', 'bake_not_reaching_temp', 'rh_cusum']),
     )
+    // A prep deck's defaults are its kind's: lower airflow and pressure than a downdraft booth's.
+    const prep = got.body.watches as unknown as { id: string; params: Record<string, number> }[]
+    expect(prep.find((w) => w.id === 'booth-pressure')?.params).toEqual({ lowPa: 0.5, highPa: 10 })
+    const downdraft = (await painter.get<{ watches: { id: string; params: Record<string, number> }[] }>(`/api/watches/${ids['downdraft-1']}`)).body
+    expect(downdraft.watches.find((w) => w.id === 'booth-pressure')?.params).toEqual({ lowPa: 2, highPa: 15 })
     const byQuery = await auditor.get<{ source: string }>(`/api/watches?boothId=${ids['prep-deck']}`)
     expect(byQuery.body.source).toBe('defaults')
 
@@ -316,8 +321,10 @@ describe('acknowledge and resolve', () => {
 })
 
 describe('humidity drift (CUSUM)', () => {
+  let rampEnd = 0
   it('opens on a slow humidity ramp well before the humidity band is crossed', async () => {
     const T = Math.floor((Date.now() - 60 * MIN) / MIN) * MIN
+    rampEnd = T + 16 * MIN
     await setWatches(ids['downdraft-2']!, [
       { id: 'rh-band', kind: 'rh_band' },
       // Shop defaults (target 55 %, σ 1.5 %, k 0.5, h 5, 1-minute means) with fewer readings per mean, as this
@@ -340,6 +347,26 @@ describe('humidity drift (CUSUM)', () => {
     expect(drift!.message).toMatch(/drifting up/)
     expect(Math.max(...points.map((p) => p.extra.rhPct as number))).toBeLessThan(60)
     expect(await alertsOf('downdraft-2', 'rh-band')).toEqual([])
+  })
+
+  it('stays open through a bake, and clears once spraying shows the humidity back at its target', async () => {
+    const [drift] = await alertsOf('downdraft-2', 'rh-drift')
+    expect(drift).toMatchObject({ state: 'open' })
+    const end = rampEnd
+    // Bake heating drives the booth RH to 10 %: says nothing about painting conditions, the alert holds.
+    await setMode('downdraft-2', 'bake', end)
+    await publish('downdraft-2', series(end + S, end + 5 * MIN, 5 * S, () => ({ rhPct: 10 })))
+    await settle()
+    expect((await alertsOf('downdraft-2', 'rh-drift'))[0]).toMatchObject({ id: drift!.id, state: 'open' })
+    // Spraying again at 54 %: S_hi loses 54 − 55 − 0.75 = −1.75 %RH a minute, from at most 15 (capSigma 10 × σ 1.5).
+    await setMode('downdraft-2', 'spray', end + 5 * MIN)
+    await publish('downdraft-2', series(end + 5 * MIN + S, end + 15 * MIN, 5 * S, () => ({ rhPct: 54 })))
+    const cleared = await waitUntil(async () => {
+      const [x] = await alertsOf('downdraft-2', 'rh-drift')
+      return x?.state === 'resolved' ? x : undefined
+    })
+    expect(cleared).toMatchObject({ id: drift!.id, resolution: 'cleared' })
+    expect(Date.parse(cleared.clearedAt!)).toBeGreaterThan(end + 5 * MIN)
   })
 })
 

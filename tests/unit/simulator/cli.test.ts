@@ -34,8 +34,15 @@ describe('command line', () => {
     })
   })
 
+  it('takes a humidity drift that comes and goes', () => {
+    expect(parseCliArgs(['--humidity-drift', '5', '--drift-peak', '12'], {}).sim).toEqual({
+      humidityDriftPct: 5,
+      model: { humidityDriftEpisodes: { peakPct: 12, holdHours: 1, restHours: 2 } },
+    })
+  })
+
   it('rejects bad arguments with a usage error', () => {
-    for (const argv of [['--booths', '0'], ['--booths', '1.5'], ['--speed', '-1'], ['--rate'], ['--site', 'Lark Spur'], ['--url', 'http://x'], ['--what']]) {
+    for (const argv of [['--drift-peak', '0'], ['--drift-peak'], ['--booths', '0'], ['--booths', '1.5'], ['--speed', '-1'], ['--rate'], ['--site', 'Lark Spur'], ['--url', 'http://x'], ['--what']]) {
       expect(() => parseCliArgs(argv, {}), argv.join(' ')).toThrow(UsageError)
     }
   })

@@ -201,6 +201,18 @@ describe('humidity', () => {
     expect(d.rhPct - b.rhPct).toBeCloseTo(expected, 6)
   })
 
+  it('brings the intake RH back after a humid spell, and lets the walk spread be set', () => {
+    const episodes = { peakPct: 10, holdHours: 1, restHours: 20 }
+    const base = model({ seed: 9, speed: 30, humidityDriftPct: 0, humidityWalkSdPct: 0 })
+    const spell = model({ seed: 9, speed: 30, humidityDriftPct: 4, humidityDriftEpisodes: episodes, humidityWalkSdPct: 0 })
+    run(base, 420)
+    run(spell, 420) // 7 minutes at speed 30 = 3.5 simulated hours: 2.5 h up, 1 h at the peak
+    expect(spell.state().intakeRhPct - base.state().intakeRhPct).toBeCloseTo(10, 6)
+    run(base, 300, 1000, START + 420_000)
+    run(spell, 300, 1000, START + 420_000) // 2.5 simulated hours more: back down
+    expect(spell.state().intakeRhPct - base.state().intakeRhPct).toBeCloseTo(0, 6)
+  })
+
   it('keeps RH within 0–100 % for any seed, speed, drift and forced air temperature', () => {
     fc.assert(
       fc.property(

@@ -3,7 +3,6 @@ import { describe, expect, it } from 'vitest'
 import {
   createCusumState,
   cusumSeries,
-  forceClearCusum,
   stepCusum,
   type CusumParams,
   type CusumState,
@@ -135,16 +134,6 @@ describe('alert life cycle', () => {
       ['open', 'low'],
     ])
     expect(pts[2]).toMatchObject({ hi: 0, lo: 5.5, open: null })
-  })
-
-  it('forceClearCusum resets an open alert without a value', () => {
-    const s = cusumSeries(p, [60]).at(-1)!
-    let state: CusumState = { hi: s.hi, lo: s.lo, open: s.open, peak: 60 }
-    const step = forceClearCusum(state)
-    expect(step.event).toMatchObject({ type: 'clear', side: 'high', value: null, sum: 9.5, peak: 60 })
-    state = step.state
-    expect(state).toEqual(createCusumState())
-    expect(forceClearCusum(state).event).toBeUndefined()
   })
 
   it('no data and bad parameters change nothing (same state object)', () => {

@@ -149,6 +149,18 @@ describe('RH drift (CUSUM) in the evaluator', () => {
     expect(events.map(brief)).toEqual(['drift:open@3840'])
     expect(events[0]).toMatchObject({ value: 57, limit: 55 })
   })
+
+  it('holds an open drift alert through a bake and idle; clears once the watched modes show the target again', () => {
+    const drift = rule({ id: 'drift', kind: 'rh_cusum', params: { targetPct: 55, sigmaPct: 1 } })
+    const ev = createBoothEvaluator([drift])
+    const opened = run(ev, hold(0, 300, { mode: 'spray', rhPct: 58 }))
+    expect(opened.map(brief)).toEqual(['drift:open@180'])
+    // Bake heating drives RH to 10 %, then the booth idles: neither is a painting condition, nothing changes.
+    expect(run(ev, [...hold(300, 2100, { mode: 'bake', rhPct: 10 }), ...hold(2100, 2400, { mode: 'idle', rhPct: 80 })])).toEqual([])
+    // Back to spraying, humidity at its target: S_hi falls by kσ = 0.5 a minute from its capped 10 (capSigma 10).
+    const cleared = run(ev, hold(2400, 4200, { mode: 'spray', rhPct: 55 }))
+    expect(cleared.map(brief)).toEqual(['drift:clear@3600'])
+  })
 })
 
 describe('snapshot / restore', () => {

@@ -29,6 +29,16 @@ describe('shop defaults', () => {
     expect(byId['bake-temp']).toMatchObject({ params: { targetC: 60, withinMs: 900_000 } })
     expect(byId['rh-drift']).toMatchObject({ params: { k: 0.5, h: 5, subgroupMs: 60_000, capSigma: 10 } })
   })
+
+  it('give a prep deck its own airflow and pressure figures, and the rest as for a downdraft booth', () => {
+    const prep = defaultWatchRules('prep_deck')
+    const byId = Object.fromEntries(prep.map((r) => [r.id, r]))
+    expect(byId['airflow-min']).toMatchObject({ params: { minMps: 0.25 }, hysteresis: 0.03 })
+    expect(byId['booth-pressure']).toMatchObject({ params: { lowPa: 0.5, highPa: 10 }, hysteresis: 0.5 })
+    const differ = prep.filter((r, i) => JSON.stringify(r) !== JSON.stringify(rules[i])).map((r) => r.id)
+    expect(differ).toEqual(['airflow-min', 'booth-pressure'])
+    expect(defaultWatchRules('crossdraft')).toEqual(rules)
+  })
 })
 
 describe('WatchRuleSchema messages', () => {
