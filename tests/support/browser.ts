@@ -167,22 +167,28 @@ export interface FocusStop {
   visible: boolean
   /** Contrast of the outline colour against the background behind the element (WCAG 2.1 SC 1.4.11: ≥ 3:1). */
   indicatorContrast: number | null
+  /** Whether it lies inside `within` (when given): a modal dialog keeps the focus inside itself. */
+  inside: boolean | null
 }
 
 /**
  * Tabs through the page from the top and records each element that took the focus with its focus indicator,
  * until the focus comes back to the first one (or `max` stops). Keyboard focus, so :focus-visible applies.
  */
-export async function tabThrough(page: Page, max = 80): Promise<FocusStop[]> {
-  await page.evaluate(() => {
-    ;(document.activeElement as HTMLElement | null)?.blur()
-    window.getSelection()?.removeAllRanges()
-  })
+export async function tabThrough(page: Page, opts: { max?: number; within?: string; fromCurrent?: boolean } = {}): Promise<FocusStop[]> {
+  const max = opts.max ?? 80
+  // From the top of the page, or (a dialog that took the focus) from where the focus is now.
+  if (!opts.fromCurrent) {
+    await page.evaluate(() => {
+      ;(document.activeElement as HTMLElement | null)?.blur()
+      window.getSelection()?.removeAllRanges()
+    })
+  }
   const stops: FocusStop[] = []
   let first: string | null = null
   for (let i = 0; i < max; i++) {
     await page.keyboard.press('Tab')
-    const stop = await page.evaluate(() => {
+    const stop = await page.evaluate((within) => {
       const el = document.activeElement as HTMLElement | null
       if (!el || el === document.body) return null
       const marker = el.getAttribute('data-focus-probe') ?? String(Math.random())
@@ -226,12 +232,13 @@ export async function tabThrough(page: Page, max = 80): Promise<FocusStop[]> {
         indicator: hasOutline ? `outline ${cs.outlineWidth} ${cs.outlineStyle} ${cs.outlineColor}` : hasShadow ? `box-shadow ${cs.boxShadow}` : 'none',
         visible: hasOutline || hasShadow,
         indicatorContrast: hasOutline && oc ? Math.round(ratio(oc, bg) * 100) / 100 : null,
+        inside: within ? el.closest(within) !== null : null,
       }
-    })
+    }, opts.within ?? null)
     if (!stop) continue
     if (first === null) first = stop.marker
     else if (stop.marker === first) break
-    stops.push({ what: stop.what, name: stop.name, indicator: stop.indicator, visible: stop.visible, indicatorContrast: stop.indicatorContrast })
+    stops.push({ what: stop.what, name: stop.name, indicator: stop.indicator, visible: stop.visible, indicatorContrast: stop.indicatorContrast, inside: stop.inside })
   }
   await page.evaluate(() => document.querySelectorAll('[data-focus-probe]').forEach((e) => e.removeAttribute('data-focus-probe')))
   return stops
