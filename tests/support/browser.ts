@@ -246,9 +246,14 @@ export async function tabThrough(page: Page, opts: { max?: number; within?: stri
 
 // ── memory ──────────────────────────────────────────────────────────────────────────────────────
 
-/** Resident memory of all of this session's Chromium processes (found by their profile folder), MiB. */
-export function chromiumMemory(session: BrowserSession): { processes: number; rssMiB: number; peakSumMiB: number } {
+/**
+ * Memory of all of this session's Chromium processes (found by their profile folder), MiB: the sum of their
+ * proportional set sizes (PSS: shared pages split between the processes that share them, so the sum is not
+ * inflated by the shared libraries), the plain sum of their resident sizes, and the sum of their VmHWM peaks.
+ */
+export function chromiumMemory(session: BrowserSession): { processes: number; pssMiB: number; rssMiB: number; peakSumMiB: number } {
   let processes = 0
+  let pss = 0
   let rss = 0
   let hwm = 0
   for (const pid of readdirSync('/proc')) {
@@ -257,13 +262,14 @@ export function chromiumMemory(session: BrowserSession): { processes: number; rs
       const cmd = readFileSync(`/proc/${pid}/cmdline`, 'utf8')
       if (!cmd.includes(session.profile)) continue
       const s = readFileSync(`/proc/${pid}/status`, 'utf8')
-      const kb = (k: string) => Number(new RegExp(`${k}:\\s+(\\d+)`).exec(s)?.[1] ?? 0)
+      const kb = (text: string, k: string) => Number(new RegExp(`${k}:\\s+(\\d+)`).exec(text)?.[1] ?? 0)
       processes++
-      rss += kb('VmRSS')
-      hwm += kb('VmHWM')
+      rss += kb(s, 'VmRSS')
+      hwm += kb(s, 'VmHWM')
+      pss += kb(readFileSync(`/proc/${pid}/smaps_rollup`, 'utf8'), 'Pss')
     } catch {
       // the process ended while we looked
     }
   }
-  return { processes, rssMiB: rss / 1024, peakSumMiB: hwm / 1024 }
+  return { processes, pssMiB: pss / 1024, rssMiB: rss / 1024, peakSumMiB: hwm / 1024 }
 }
