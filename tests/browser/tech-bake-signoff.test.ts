@@ -90,9 +90,11 @@ beforeAll(async () => {
   // The bake: air heats to 65 °C in 8 min, the panel follows to about 61 °C by 10 min and holds; then it cools.
   await mode('flash', T0 + 20 * MIN)
   await mode('bake', BAKE_AT)
-  const opened = await waitUntil(() => app.db.selectFrom('bakes').selectAll().where('booth_id', '=', boothId).executeTakeFirst(), 20_000, 250).catch((e: unknown) => {
-    console.log(app.logs().slice(-5000))
-    throw e
+  // The detector drains its queue every second, so the bake should be there within moments; if not, say what the
+  // server stored and printed.
+  const opened = await waitUntil(() => app.db.selectFrom('bakes').selectAll().where('booth_id', '=', boothId).executeTakeFirst(), 20_000, 250).catch(async () => {
+    const modes = await app.db.selectFrom('booth_modes').select(['ts', 'mode']).where('booth_id', '=', boothId).orderBy('ts').execute()
+    throw new Error(`No bake was opened from the controller's 'bake' mode (modes stored: ${JSON.stringify(modes)}).\n--- server output ---\n${app.logs().slice(-3000)}`)
   })
   bakeId = opened.id
   expect(opened).toMatchObject({ state: 'detected', source: 'mode' })
