@@ -72,6 +72,14 @@ stops.push(
 const base = `http://127.0.0.1:${port}`
 await waitForHttp(`${base}/api/health`, 120_000)
 
+// Before the live simulator starts, so Downdraft booth 2 has no running bake yet.
+if (process.env.DEMO_HISTORY !== 'off') {
+  const { seedFinishedJob } = await import('./lib/demo-history')
+  await seedFinishedJob({ baseUrl: base, databaseUrl, password: demoPassword, log: (l) => console.log(l) }).catch((e: unknown) =>
+    console.warn('[history] the finished demo job was not created:', e instanceof Error ? e.message : e),
+  )
+}
+
 if (!process.env.MQTT_URL && process.env.DEMO_SIMULATOR !== 'off') {
   const { startSimulator } = await import('../simulator/publisher')
   const sim = startSimulator({

@@ -109,6 +109,9 @@ export class BakeDetector {
 
   /** Works through the queue in order (one at a time, so an open and its close never race). */
   drain(): Promise<void> {
+    // With nothing queued the async body below would finish, and clear `draining`, before `??=` stores it: a
+    // settled promise would then stay there for good and every later drain would do nothing.
+    if (!this.draining && !this.queue.length) return Promise.resolve()
     this.draining ??= (async () => {
       try {
         while (this.queue.length) {

@@ -80,6 +80,8 @@ describe('a bake opened by the controller through MQTT', () => {
     const jobId = await jobWithClearcoat('downdraft-1', 'RO-24017', cyc.bakeStartMs - 15 * MIN)
     const c = await connectDevice(app.mqttUrl, 'downdraft-1')
     const bakeMode = cyc.modes.find((m) => m.mode === 'bake')!
+    // Let the detector run a few empty rounds first: an empty round once left it stuck for good.
+    await new Promise((r) => setTimeout(r, 3_000))
     await c.publishAsync(topicOf('downdraft-1', 'mode'), JSON.stringify({ ts: new Date(bakeMode.tsMs).toISOString(), mode: 'bake' }), { qos: 1 })
     // The detector opens a bake at the mode's time, in state 'detected'.
     const opened = await waitUntil(() => app.db.selectFrom('bakes').selectAll().where('booth_id', '=', booth['downdraft-1']!).executeTakeFirst())
