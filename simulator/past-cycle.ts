@@ -2,8 +2,8 @@
 // booth would have sent, and when its coats and its bake happened. The demo stores it as the history of a finished
 // job, so its coats keep the flash times the data sheets ask for (the free-running cycle does not know them).
 
-import { createBoothModel, type Mode } from './model'
-import type { Reading } from './wire'
+import { createBoothModel } from './model'
+import type { Mode, Reading } from './wire'
 
 export interface PlannedSegment {
   mode: Mode
