@@ -4,7 +4,7 @@
 //   page meta `roles` (definePageMeta({ roles: ['admin'] })) not matching → /not-allowed
 import type { Role } from '~/stores/session'
 import { useSessionStore } from '~/stores/session'
-import { safeNext } from '~/composables/navigation'
+import { homeOf, safeNext } from '~/composables/navigation'
 
 declare module '#app' {
   interface PageMeta {
@@ -30,7 +30,7 @@ export default defineNuxtRouteMiddleware(async (to) => {
   const user = session.user
 
   if (to.path === '/login') {
-    if (user) return navigateTo(user.mustChangePassword ? '/account/password' : safeNext(to.query.next), { replace: true })
+    if (user) return navigateTo(user.mustChangePassword ? '/account/password' : safeNext(to.query.next, homeOf(user.role)), { replace: true })
     return
   }
   if (to.meta.public) return

@@ -1,5 +1,5 @@
 import { spawn, type ChildProcess } from 'node:child_process'
-import { readFileSync } from 'node:fs'
+import { appendFileSync, readFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { SERVER_ENTRY } from '../../scripts/lib/build'
 import { waitForHttp } from '../../scripts/lib/ports'
@@ -23,10 +23,16 @@ export function memoryOf(pid: number): { rssMiB: number; peakMiB: number } {
 }
 
 export async function startAppProcess(env: Record<string, string>, port: number): Promise<AppProcess> {
-  const child = spawn(process.execPath, [...(process.env.BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=/tmp/prof'] : []), resolve(SERVER_ENTRY)], { env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'production' }, stdio: ['ignore', 'pipe', 'pipe'] })
+  const child = spawn(process.execPath, [...(process.env.BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=/tmp/prof'] : []), ...(process.env.BENCH_NODE_FLAGS?.split(' ').filter(Boolean) ?? []), resolve(SERVER_ENTRY)], { env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'production' }, stdio: ['ignore', 'pipe', 'pipe'] })
   let out = ''
-  child.stdout?.on('data', (d: Buffer) => (out += d))
-  child.stderr?.on('data', (d: Buffer) => (out += d))
+  // BENCH_SERVER_LOG=file keeps the server's output (e.g. with BENCH_NODE_FLAGS=--trace-gc) for a closer look.
+  const log = process.env.BENCH_SERVER_LOG
+  const keep = (d: Buffer) => {
+    out += d
+    if (log) appendFileSync(log, d)
+  }
+  child.stdout?.on('data', keep)
+  child.stderr?.on('data', keep)
   const url = `http://127.0.0.1:${port}`
   try {
     await waitForHttp(`${url}/api/health`, 90_000)

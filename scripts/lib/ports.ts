@@ -1,7 +1,10 @@
 import { createServer } from 'node:net'
 
-/** A free TCP port on 127.0.0.1 (the OS picks it). */
-export function freePort(): Promise<number> {
+// Ports this process has handed out: the kernel may give the same free port to two calls in a row (nothing
+// is bound to it between them), and two servers of one test or benchmark would then collide.
+const handedOut = new Set<number>()
+
+function askKernel(): Promise<number> {
   return new Promise((resolve, reject) => {
     const srv = createServer()
     srv.once('error', reject)
@@ -11,6 +14,18 @@ export function freePort(): Promise<number> {
       srv.close(() => resolve(port))
     })
   })
+}
+
+/** A loopback port that is free now and that this process has not handed out before. */
+export async function freePort(): Promise<number> {
+  for (let i = 0; i < 50; i++) {
+    const port = await askKernel()
+    if (!handedOut.has(port)) {
+      handedOut.add(port)
+      return port
+    }
+  }
+  throw new Error('no free loopback port that was not already handed out')
 }
 
 /** Polls a URL until it answers with one of `ok` statuses, or throws after `timeoutMs`. */

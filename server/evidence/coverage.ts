@@ -64,31 +64,28 @@ export function conditionStats(points: readonly EnvPoint[], fromMs: number, toMs
 
 const MINUTE = 60_000
 
+/** Shortest run of minutes without a reading that the report lists as a gap. */
+export const MIN_GAP_MINUTES = 5
+
+/** The whole minutes of [fromMs, toMs): minutes cut by the period's ends count as covered. */
+export function wholeMinutes(fromMs: number, toMs: number): { first: number; last: number } {
+  return { first: Math.ceil(fromMs / MINUTE) * MINUTE, last: Math.floor(toMs / MINUTE) * MINUTE }
+}
+
 /**
  * Coverage of [fromMs, toMs) by readings: `rows` against one per second, and the runs of at least
- * `minGapMinutes` whole minutes with no reading, from the minutes that have one (epoch ms of each
- * minute's start, any order). Minutes cut by the period's ends count as covered.
+ * `minGapMinutes` whole minutes with no reading (`gaps`, epoch ms, found from the rollups by the caller
+ * within wholeMinutes(fromMs, toMs)).
  */
-export function readingCoverage(rows: number, presentMinutes: Iterable<number>, fromMs: number, toMs: number, minGapMinutes = 5): ReadingCoverage {
+export function readingCoverage(rows: number, gaps: readonly { from: number; to: number }[], fromMs: number, toMs: number, minGapMinutes = MIN_GAP_MINUTES): ReadingCoverage {
   const expectedRows = Math.max(0, Math.floor((toMs - fromMs) / 1000))
-  const present = new Set<number>()
-  for (const m of presentMinutes) present.add(Math.floor(m / MINUTE) * MINUTE)
-  const gaps: ReadingCoverage['gaps'] = []
-  const first = Math.ceil(fromMs / MINUTE) * MINUTE
-  const last = Math.floor(toMs / MINUTE) * MINUTE // minutes starting before this are whole inside the period
-  let runStart: number | null = null
-  const close = (end: number) => {
-    if (runStart === null) return
-    const minutes = (end - runStart) / MINUTE
-    if (minutes >= minGapMinutes) gaps.push({ from: new Date(runStart).toISOString(), to: new Date(end).toISOString(), minutes })
-    runStart = null
+  return {
+    rows,
+    expectedRows,
+    ratio: expectedRows ? rows / expectedRows : rows ? 1 : 0,
+    gaps: gaps.map((g) => ({ from: new Date(g.from).toISOString(), to: new Date(g.to).toISOString(), minutes: (g.to - g.from) / MINUTE })),
+    minGapMinutes,
   }
-  for (let m = first; m < last; m += MINUTE) {
-    if (present.has(m)) close(m)
-    else runStart ??= m
-  }
-  close(last)
-  return { rows, expectedRows, ratio: expectedRows ? rows / expectedRows : rows ? 1 : 0, gaps, minGapMinutes }
 }
 
 /** Evenly thinned copy of at most `max` items (charts need no more points than pixels). */

@@ -1,9 +1,8 @@
-import { stringify, type Options } from 'csv-stringify/sync'
 import { dewPointC } from '#shared/cure/psychrometrics'
 import { CALIBRATED_CHANNELS, type CalibratedChannel } from '#shared/bake/channels'
 import { CHANNELS } from '../db/channels'
 
-// The raw environment log as CSV. Pure: the columns, one record per stored reading, and the stringifier.
+// The raw environment log as CSV. Pure: the columns, one record per stored reading, and the formatter.
 //
 // Format (stated again in the manifest):
 // - RFC 4180: comma separated, CRLF after every record (the last one too), a field is quoted when it holds
@@ -17,30 +16,34 @@ import { CHANNELS } from '../db/channels'
 //   prefixed with a single quote so a spreadsheet shows it as text. Number cells are never touched (−3.5
 //   stays a number); only text cells (booth, device id) can carry such a value.
 
-type Channel = (typeof CHANNELS)[number]
-
 /**
- * A stored reading as the export reads it: every value as PostgreSQL's text output (a float4 comes back
- * as its shortest exact decimal, e.g. "21.4"), so raw values are written exactly as stored and nothing is
- * parsed that is not computed with. (Reading typed rows promoted every row to V8's old generation and made
- * the server's memory swing by hundreds of MB on a long export; text rows die young.)
+ * A stored reading as the export reads it: a tuple (the time as ISO 8601 UTC with milliseconds, then the stored
+ * columns, the channels in CHANNELS order), every value PostgreSQL's text output (a float4 comes back as its
+ * shortest exact decimal, e.g. "21.4"), so raw values are written exactly as stored and nothing is parsed that
+ * is not computed with; null = not measured.
  */
-export interface ExportReadingRow {
-  /** ISO 8601 UTC with milliseconds. */
-  ts_iso: string
-  device_id: string
-  seq: string | null
-  air_temp_c: string | null
-  rh_pct: string | null
-  panel_temp_c: string | null
-  airflow_mps: string | null
-  booth_dp_pa: string | null
-  intake_filter_dp_pa: string | null
-  exhaust_filter_dp_pa: string | null
-  /** PostgreSQL's boolean text: 't' / 'f'. */
-  heater_on: string | null
-  dew_point_c: string | null
-}
+export type ExportReading = [
+  tsIso: string,
+  deviceId: string,
+  seq: string | null,
+  airTempC: string | null,
+  rhPct: string | null,
+  panelTempC: string | null,
+  airflowMps: string | null,
+  boothDpPa: string | null,
+  intakeFilterDpPa: string | null,
+  exhaustFilterDpPa: string | null,
+  /** 'true' / 'false'. */
+  heaterOn: string | null,
+  dewPointC: string | null,
+]
+
+/** Index of the first channel (CHANNELS order); the heater and the dew point follow the channels. */
+const CH0 = 3
+const HEATER = CH0 + CHANNELS.length
+const DEW = HEATER + 1
+/** Fields of an ExportReading. */
+export const READING_LENGTH = DEW + 1
 
 /** Calibration of a value of `channel` at tsMs (null stays null); null when the booth has no calibrations. */
 export type Calibrate = ((channel: CalibratedChannel, tsMs: number, value: number | null) => number | null) | null
@@ -82,13 +85,17 @@ export function neutraliseText(s: string): string {
 const round3 = (v: number) => Math.round(v * 1000) / 1000
 const round2 = (v: number) => Math.round(v * 100) / 100
 
-const COLUMN_OF = Object.fromEntries(CHANNELS.map((c) => [c.wire, c.column])) as Record<CalibratedChannel, Channel['column']>
-const CALIBRATED = CALIBRATED_CHANNELS.map((wire) => ({ wire, column: COLUMN_OF[wire] }))
-if (CALIBRATED.some((c, i) => c.column !== CHANNELS[i]?.column)) throw new Error('CALIBRATED_CHANNELS must list the channels in CHANNELS order')
+// The calibrated channels are the first ones of CHANNELS, so channel i sits at CH0 + i of a reading.
+if (CALIBRATED_CHANNELS.some((wire, i) => CHANNELS[i]?.wire !== wire)) throw new Error('CALIBRATED_CHANNELS must list the channels in CHANNELS order')
+const AIR = CH0 + CALIBRATED_CHANNELS.indexOf('airTempC')
+const RH = CH0 + CALIBRATED_CHANNELS.indexOf('rhPct')
+const PANEL = CH0 + CALIBRATED_CHANNELS.indexOf('panelTempC')
 
 export type CsvCell = string | number | null
 
-/** One CSV record (cells in csvColumns order) from a stored reading. */
+/** Field i of a reading (past the fixed first three, where the index is computed). */
+const field = (r: ExportReading, i: number): string | null => r[i] ?? null
+
 const num = (v: string | null): number | null => {
   if (v === null) return null
   const n = Number(v)
@@ -96,62 +103,71 @@ const num = (v: string | null): number | null => {
 }
 
 /** One CSV record (cells in csvColumns order) from a stored reading. Numeric cells are numbers or their stored text. */
-export function csvRecord(row: ExportReadingRow, boothSlug: string, calibrate: Calibrate, includeRaw: boolean): CsvCell[] {
-  const cells: CsvCell[] = [row.ts_iso, neutraliseText(boothSlug), neutraliseText(row.device_id), row.seq]
-  let air = num(row.air_temp_c)
-  let rh = num(row.rh_pct)
-  let panel = num(row.panel_temp_c)
+export function csvRecord(row: ExportReading, boothSlug: string, calibrate: Calibrate, includeRaw: boolean, cells: CsvCell[] = []): CsvCell[] {
+  cells.length = 0
+  cells.push(row[0], neutraliseText(boothSlug), neutraliseText(row[1]), row[2])
+  let air = num(field(row, AIR))
+  let rh = num(field(row, RH))
+  let panel = num(field(row, PANEL))
   let moved = false
   if (calibrate) {
-    const t = Date.parse(row.ts_iso)
-    for (const c of CALIBRATED) {
-      const text = row[c.column]
+    const t = Date.parse(row[0])
+    for (let i = 0; i < CALIBRATED_CHANNELS.length; i++) {
+      const wire = CALIBRATED_CHANNELS[i]!
+      const text = field(row, CH0 + i)
       const raw = num(text)
-      const v = calibrate(c.wire, t, raw)
+      const v = calibrate(wire, t, raw)
       if (v !== raw && v !== null) {
         const r = round3(v)
         cells.push(r)
-        if (c.wire === 'airTempC') air = r
-        else if (c.wire === 'rhPct') rh = r
-        else if (c.wire === 'panelTempC') panel = r
-        if (c.wire === 'airTempC' || c.wire === 'rhPct') moved = true
+        if (wire === 'airTempC') air = r
+        else if (wire === 'rhPct') rh = r
+        else if (wire === 'panelTempC') panel = r
+        if (wire === 'airTempC' || wire === 'rhPct') moved = true
       } else cells.push(text)
     }
+    for (let i = CALIBRATED_CHANNELS.length; i < CHANNELS.length; i++) cells.push(field(row, CH0 + i))
   } else {
-    for (const c of CHANNELS) cells.push(row[c.column])
+    for (let i = 0; i < CHANNELS.length; i++) cells.push(field(row, CH0 + i))
   }
-  let dew: CsvCell = row.dew_point_c
-  let dewNum = num(row.dew_point_c)
+  let dew: CsvCell = field(row, DEW)
+  let dewNum = num(field(row, DEW))
   if (moved) {
     const dp = air !== null && rh !== null && rh > 0 ? dewPointC(air, Math.min(100, rh)) : Number.NaN
     dewNum = Number.isFinite(dp) ? round2(dp) : null
     dew = dewNum
   }
   const surface = panel ?? air
-  cells.push(dew, surface !== null && dewNum !== null ? round2(surface - dewNum) : null, row.heater_on === null ? null : row.heater_on === 't' ? 'true' : 'false')
+  cells.push(dew, surface !== null && dewNum !== null ? round2(surface - dewNum) : null, field(row, HEATER))
   if (includeRaw) {
-    for (const c of CHANNELS) cells.push(row[c.column])
-    cells.push(row.dew_point_c)
+    for (let i = 0; i < CHANNELS.length; i++) cells.push(field(row, CH0 + i))
+    cells.push(field(row, DEW))
   }
   return cells
 }
 
-// csv-stringify quotes a field holding the delimiter or a quote by itself; `quoted_match` adds lone CR and
-// LF, which RFC 4180 also requires quoted.
-const OPTIONS: Options = {
-  delimiter: ',',
-  quote: '"',
-  escape: '"',
-  record_delimiter: '\r\n',
-  quoted_match: /[\r\n]/,
-  cast: { number: (v) => String(v) },
+// RFC 4180 by hand rather than through csv-stringify: the export writes millions of records, and
+// csv-stringify allocated several kB per record, which kept V8's young generation churning (a scavenge every
+// ~25 ms). Same output as csv-stringify with delimiter ',', quote and escape '"', CRLF records and lone CR / LF
+// quoted (tests/unit/evidence/csv.test.ts checks it against csv-stringify).
+const NEEDS_QUOTES = /[",\r\n]/
+const QUOTES = /"/g
+
+/** One field: empty for null, numbers as JavaScript prints them, quoted when it holds a comma, a quote, CR or LF. */
+export function csvField(v: CsvCell): string {
+  if (v === null) return ''
+  const s = typeof v === 'number' ? String(v) : v
+  return NEEDS_QUOTES.test(s) ? `"${s.replace(QUOTES, '""')}"` : s
 }
 
-/**
- * Records as CSV text, through csv-stringify, each record ending in CRLF; `bom` puts the byte-order mark
- * first (the file's first chunk only). The export calls this once per page of readings, so the stream
- * machinery (and its per-chunk cost in the zip and hash stages) sees one chunk per page, not per row.
- */
-export function csvText(records: readonly CsvCell[][], opts: { bom?: boolean } = {}): string {
-  return stringify(records as CsvCell[][], { ...OPTIONS, bom: opts.bom === true })
+/** One CSV record, CRLF included. */
+export function csvLine(cells: readonly CsvCell[]): string {
+  let line = cells.length ? csvField(cells[0] ?? null) : ''
+  for (let i = 1; i < cells.length; i++) line += ',' + csvField(cells[i] ?? null)
+  return line + '\r\n'
+}
+
+/** The file's first chunk: the byte-order mark and the header record. */
+export function csvHeader(columns: readonly string[]): string {
+  return '\uFEFF' + csvLine(columns)
 }

@@ -3,26 +3,26 @@ import type { Kysely } from 'kysely'
 import type pg from 'pg'
 import type { Database } from '../db/database'
 import { applyCalibration, calibrationsReady, hasCalibrations } from '../domain/calibration'
-import { readingPage, type ReadingPageRow } from '../repositories/exports'
-import { csvColumns, csvRecord, csvText, type Calibrate, type CsvCell } from './csv'
+import { decodeReadings, readingPage, type ReadingPage } from '../repositories/exports'
+import { csvColumns, csvHeader, csvRecord, type Calibrate, type CsvCell } from './csv'
+import { CsvBytes } from './csv-bytes'
 import type { BoothRef } from './types'
 
 // The environment log of booths over a period as a stream of CSV bytes, in flat memory whatever the
 // period: readings are read a page at a time (keyset on the booth's (booth_id, ts) key), each page written
-// through csv-stringify in slices, and the next page read only when the consumer has taken the previous
-// ones (Readable backpressure: _read is not called while HIGH_WATER bytes wait).
+// as one chunk, and the next page read only when the consumer has taken the previous ones (Readable
+// backpressure: _read is not called while HIGH_WATER bytes wait). The next page is fetched while the current
+// one is written, so the round trips do not add up.
 //
-// Page size is small on purpose. A page's rows live while the page is written out; when that takes about as
-// much allocation as V8's young generation holds, a scavenge keeps finding nearly all of the rows of their
-// allocation site alive, V8 starts allocating them straight into the old generation ("pretenuring") and the
-// old generation then fills with dead rows up to its limit (measured in the server: +200 MB on a 30-day
-// export, with 500-row pages). With 100-row pages the rows die young. The next page is fetched while the
-// current one is written, so the round trips do not add up.
+// What keeps it flat is allocating almost nothing per reading that V8 could keep: a page arrives as one
+// string (see readingPage), and each reading becomes a few short-lived strings and arrays on its way to the
+// page's chunk; no object survives its page.
 
-export const PAGE_SIZE = 100
-/** Records per csv-stringify call. */
-const SLICE = 100
+/** Readings per page: one query and one chunk of the stream each. */
+export const PAGE_SIZE = 1000
 const HIGH_WATER = 1 << 20
+/** A first guess of a record's bytes (about 115 without calibrations, 180 with). */
+const BYTES_PER_RECORD = 160
 
 export interface EnvironmentLog {
   stream: Readable
@@ -37,8 +37,11 @@ class EnvironmentLogStream extends Readable {
   private headerSent = false
   private busy = false
   /** The next page, already asked for (its booth, and the query). */
-  private ahead: { booth: BoothRef; rows: Promise<ReadingPageRow[]> } | null = null
+  private ahead: { booth: BoothRef; page: Promise<ReadingPage> } | null = null
   rows = 0
+  /** Reused for every record: nothing per record outlives it. */
+  private readonly cells: CsvCell[] = []
+  private readonly out: CsvBytes
 
   constructor(
     private readonly pool: pg.Pool,
@@ -50,12 +53,13 @@ class EnvironmentLogStream extends Readable {
     private readonly pageSize: number,
   ) {
     super({ highWaterMark: HIGH_WATER })
+    this.out = new CsvBytes(pageSize * BYTES_PER_RECORD)
   }
 
   override _read(): void {
     if (!this.headerSent) {
       this.headerSent = true
-      this.push(csvText([this.header], { bom: true }), 'utf8')
+      this.push(csvHeader(this.header), 'utf8')
       return
     }
     if (this.busy) return
@@ -74,9 +78,9 @@ class EnvironmentLogStream extends Readable {
   }
 
   private ask(booth: BoothRef, after: string | null) {
-    const rows = readingPage(this.pool, booth.id, this.from, this.to, after, this.pageSize)
-    rows.catch(() => undefined) // awaited (and its error raised) by nextPage, unless the stream is gone by then
-    this.ahead = { booth, rows }
+    const page = readingPage(this.pool, booth.id, this.from, this.to, after, this.pageSize)
+    page.catch(() => undefined) // awaited (and its error raised) by nextPage, unless the stream is gone by then
+    this.ahead = { booth, page }
   }
 
   private async nextPage(): Promise<void> {
@@ -89,20 +93,18 @@ class EnvironmentLogStream extends Readable {
         }
         this.ask(booth, null)
       }
-      const { booth, rows } = this.ahead!
-      const page = await rows
+      const { booth, page } = this.ahead!
+      const { encoded, lastKey } = await page
       if (this.destroyed) return
+      const readings = decodeReadings(encoded)
       this.ahead = null
-      if (page.length === this.pageSize) this.ask(booth, page[page.length - 1]!.ts_key)
+      if (readings.length === this.pageSize && lastKey !== null) this.ask(booth, lastKey)
       else this.boothIndex++
-      if (!page.length) continue
+      if (!readings.length) continue
       const calibrate: Calibrate = hasCalibrations(booth.id) ? (ch, t, v) => applyCalibration(booth.id, ch, t, v) : null
-      for (let i = 0; i < page.length; i += SLICE) {
-        const records: CsvCell[][] = []
-        for (let j = i; j < Math.min(page.length, i + SLICE); j++) records.push(csvRecord(page[j]!, booth.slug, calibrate, this.includeRaw))
-        this.rows += records.length
-        this.push(csvText(records), 'utf8')
-      }
+      for (const r of readings) this.out.record(csvRecord(r, booth.slug, calibrate, this.includeRaw, this.cells))
+      this.rows += readings.length
+      this.push(this.out.take())
       return
     }
   }

@@ -19,7 +19,7 @@ import {
   countReadings,
   jobClosings,
   jobsByIds,
-  minutesWithReadings,
+  minuteGaps,
   revisionsWithTds,
 } from '../repositories/exports'
 import { getBake } from '../domain/bakes'
@@ -28,7 +28,7 @@ import { planComplete } from '../domain/coats'
 import { chainHead, verifyChain } from '../domain/event-log'
 import { boothHistory } from '../domain/history'
 import { loadRevisions, revisionLabel, type RevisionInfo } from '../domain/jobs'
-import { conditionStats, readingCoverage, thin, type EnvPoint } from './coverage'
+import { conditionStats, MIN_GAP_MINUTES, readingCoverage, thin, wholeMinutes, type EnvPoint } from './coverage'
 import type {
   AlertEvidence,
   BakeEvidence,
@@ -470,8 +470,12 @@ export async function buildReport(db: Db, s: ResolvedScope, by: Who, exportId: s
   }
   signOffs.sort((a, b) => a.at.localeCompare(b.at))
 
-  const [rows, minutes] = await Promise.all([countReadings(db, boothIds, s.from, s.to), minutesWithReadings(db, boothIds, s.from, s.to)])
-  const coverage = readingCoverage(rows, minutes, s.from.getTime(), s.to.getTime())
+  const whole = wholeMinutes(s.from.getTime(), s.to.getTime())
+  const [rows, gaps] = await Promise.all([
+    countReadings(db, boothIds, s.from, s.to),
+    minuteGaps(db, boothIds, new Date(whole.first), new Date(whole.last), MIN_GAP_MINUTES),
+  ])
+  const coverage = readingCoverage(rows, gaps.map((g) => ({ from: g.from.getTime(), to: g.to.getTime() })), s.from.getTime(), s.to.getTime(), MIN_GAP_MINUTES)
   const charts = await chartsOf(db, s.booths, s.from, s.to, coats, bakes)
   const chain = await chainOf(db)
 

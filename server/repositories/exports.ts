@@ -1,8 +1,9 @@
-import type { Kysely, Transaction } from 'kysely'
+import { sql, type Kysely, type Transaction } from 'kysely'
 import type pg from 'pg'
 import type { Database } from '../db/database'
 import type { ExportRow, NewExportRow } from '../db/tables/evidence'
-import type { ExportReadingRow } from '../evidence/csv'
+import { CHANNELS } from '../db/channels'
+import { READING_LENGTH, type ExportReading } from '../evidence/csv'
 
 // Kysely access for evidence: the exports record, and the reads a pack needs that no other repository
 // offers (readings page by page, coverage, coats and alerts of a period, revisions with their TDS file).
@@ -42,40 +43,72 @@ export function findExport(db: Db, id: string): Promise<ExportListRow | undefine
 
 // ── readings ─────────────────────────────────────────────────────────────────────────────────────────
 
-export interface ReadingPageRow extends ExportReadingRow {
-  /** The exact stored timestamp as text: the keyset cursor (a JS Date would drop microseconds). */
-  ts_key: string
+export interface ReadingPage {
+  /** The readings as PAGE_SQL encodes them (null when none); decodeReadings reads them. */
+  encoded: string | null
+  /** The exact stored timestamp of the last reading as text: the keyset cursor (a JS Date would drop microseconds). */
+  lastKey: string | null
 }
 
 const asText = (v: string) => v
 const TEXT_TYPES = { getTypeParser: () => asText }
+// A whole page comes back as ONE text value: readings separated by LF, fields by TAB, in ExportReading order,
+// null as an empty field. Only the device id is free text; its backslashes, TABs and LFs are escaped (\\ \t \n).
+// Why not a row per reading: every row pg parses is a few objects made at pg's own allocation sites, shared
+// with every other query in the process. Once V8 has decided to pretenure those sites (after some query held
+// many rows across a scavenge, e.g. at start-up) every row of a long export is allocated straight into the old
+// generation and piles up there as garbage until a full GC: measured +160 to +220 MB on a 30-day export, gone
+// with --no-allocation-site-pretenuring. A page as one string is a handful of objects whatever its length.
+const FIELD_SQL = [
+  `to_char(ts AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`,
+  `replace(replace(replace(device_id, '\\', '\\\\'), E'\\t', '\\t'), E'\\n', '\\n')`,
+  `coalesce(seq::text, '')`,
+  ...CHANNELS.map((c) => `coalesce(${c.column}::text, '')`),
+  `CASE heater_on WHEN true THEN 'true' WHEN false THEN 'false' ELSE '' END`,
+  `coalesce(dew_point_c::text, '')`,
+]
+if (FIELD_SQL.length !== READING_LENGTH) throw new Error('the page SQL must give every field of an ExportReading')
 const PAGE_SQL = (after: boolean) => `
-  SELECT ts::text AS ts_key, to_char(ts AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') AS ts_iso, device_id, seq,
-    air_temp_c, rh_pct, panel_temp_c, airflow_mps, booth_dp_pa, intake_filter_dp_pa, exhaust_filter_dp_pa,
-    heater_on, dew_point_c
-  FROM readings
-  WHERE booth_id = $1 AND ts ${after ? '>' : '>='} $2::timestamptz AND ts < $3::timestamptz
-  ORDER BY ts
-  LIMIT $4`
+  WITH page AS (
+    SELECT ts, device_id, seq, ${CHANNELS.map((c) => c.column).join(', ')}, heater_on, dew_point_c FROM readings
+    WHERE booth_id = $1 AND ts ${after ? '>' : '>='} $2::timestamptz AND ts < $3::timestamptz
+    ORDER BY ts
+    LIMIT $4)
+  SELECT max(ts)::text AS last_key, string_agg(concat_ws(E'\\t', ${FIELD_SQL.join(', ')}), E'\\n' ORDER BY ts) AS readings
+  FROM page`
+
+const ESCAPED = /\\([\\tn])/g
+const unescapeField = (s: string) => s.replace(ESCAPED, (_, c: string) => (c === 't' ? '\t' : c === 'n' ? '\n' : c))
+
+/** The readings of a page, from PAGE_SQL's encoding. */
+export function decodeReadings(text: string | null): ExportReading[] {
+  if (!text) return []
+  return text.split('\n').map((line) => {
+    const f: (string | null)[] = line.split('\t')
+    if (f.length !== READING_LENGTH) throw new Error(`a reading of the export has ${f.length} fields, not ${READING_LENGTH}`)
+    for (let i = 2; i < f.length; i++) if (f[i] === '') f[i] = null
+    const device = f[1]!
+    if (device.includes('\\')) f[1] = unescapeField(device)
+    return f as ExportReading
+  })
+}
 
 /**
- * One page of a booth's stored readings in [from, to), time-ordered, after the cursor `afterKey` (the
- * ts_key of the last row of the previous page). Keyset pagination on the (booth_id, ts) primary key: each
- * page is an index range scan, so memory and time per page stay flat however long the period.
- *
- * Plain pg rather than Kysely, with every value as text: measured on 864,000 rows, the typed rows of the
- * Kysely path were all promoted to V8's old generation (~370 MB), the text rows of this query ~7 MB, which is
- * what keeps a long export's memory flat.
+ * One page of a booth's stored readings in [from, to), time-ordered, after the cursor `afterKey` (the lastKey
+ * of the previous page). Keyset pagination on the (booth_id, ts) primary key: each page is an index range
+ * scan, so memory and time per page stay flat however long the period. Plain pg rather than Kysely, with
+ * every value as text (see PAGE_SQL).
  */
-export async function readingPage(pool: pg.Pool, boothId: number, from: Date, to: Date, afterKey: string | null, limit: number): Promise<ReadingPageRow[]> {
-  const res = await pool.query<ReadingPageRow>({
-    // Prepared once per connection (named): a page is small, so parse and plan would be much of its cost.
+export async function readingPage(pool: pg.Pool, boothId: number, from: Date, to: Date, afterKey: string | null, limit: number): Promise<ReadingPage> {
+  const res = await pool.query<{ last_key: string | null; readings: string | null }>({
+    // Prepared once per connection (named): parse and plan would be much of a page's cost.
     name: afterKey === null ? 'evidence-reading-first-page' : 'evidence-reading-next-page',
     text: PAGE_SQL(afterKey !== null),
     values: [boothId, afterKey ?? from.toISOString(), to.toISOString(), limit],
     types: TEXT_TYPES,
   })
-  return res.rows
+  const row = res.rows[0]
+  return { encoded: row?.readings ?? null, lastKey: row?.last_key ?? null }
 }
 
 export async function countReadings(db: Db, boothIds: readonly number[], from: Date, to: Date): Promise<number> {
@@ -90,19 +123,27 @@ export async function countReadings(db: Db, boothIds: readonly number[], from: D
   return Number(r.n)
 }
 
-/** Start of every minute in [from, to) that has a reading in any of the booths (from the rollups). */
-export async function minutesWithReadings(db: Db, boothIds: readonly number[], from: Date, to: Date): Promise<number[]> {
-  if (!boothIds.length) return []
-  const rows = await db
-    .selectFrom('readings_minute')
-    .select('minute')
-    .distinct()
-    .where('booth_id', 'in', [...boothIds])
-    .where('minute', '>=', new Date(Math.floor(from.getTime() / 60_000) * 60_000))
-    .where('minute', '<', to)
-    .where('n', '>', 0)
-    .execute()
-  return rows.map((r) => r.minute.getTime())
+/**
+ * Runs of at least `minMinutes` whole minutes in [first, last) (both on a minute) in which none of the booths
+ * has a reading, from the rollups, oldest first. Found in SQL (gaps between consecutive minutes that have a
+ * reading, with a sentinel at each end) so what comes back is as long as the gaps, not the period.
+ */
+export async function minuteGaps(db: Db, boothIds: readonly number[], first: Date, last: Date, minMinutes: number): Promise<{ from: Date; to: Date }[]> {
+  const res = await sql<{ gap_from: Date; gap_to: Date }>`
+    WITH present AS (
+      SELECT DISTINCT minute FROM readings_minute
+      WHERE booth_id = ANY(${[...boothIds]}::int[]) AND minute >= ${first} AND minute < ${last} AND n > 0
+    ), edges AS (
+      SELECT minute FROM present
+      UNION ALL SELECT ${first}::timestamptz - interval '1 minute'
+      UNION ALL SELECT ${last}::timestamptz
+    ), steps AS (
+      SELECT minute, lead(minute) OVER (ORDER BY minute) AS next_minute FROM edges
+    )
+    SELECT minute + interval '1 minute' AS gap_from, next_minute AS gap_to FROM steps
+    WHERE next_minute >= minute + make_interval(mins => ${minMinutes + 1}::int)
+    ORDER BY minute`.execute(db)
+  return res.rows.map((r) => ({ from: r.gap_from, to: r.gap_to }))
 }
 
 // ── jobs, coats, bakes, alerts of a period ─────────────────────────────────────────────────────────

@@ -88,8 +88,8 @@ describe('auditor: evidence pack', () => {
   it('signs in, picks the finished job on Evidence, previews and downloads the pack', async () => {
     const page = browser.page
     await signIn(page, app.url, 'auditor@larkspur.example', DEMO_PASSWORD)
-    // Wherever sign-in lands an auditor (the dashboard or Evidence), go to Evidence explicitly.
-    await page.goto(`${app.url}/evidence`)
+    // Exports are the auditor's main page: sign-in lands there.
+    await page.waitForURL(`${app.url}/evidence`)
     await page.getByRole('heading', { name: 'Evidence', level: 1 }).waitFor()
     const jobSelect = page.getByTestId('evidence-job')
     // Only finished jobs are offered by default: the demo job still in the booth is not among them.

@@ -2,7 +2,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 import { mockNuxtImport, registerEndpoint } from '@nuxt/test-utils/runtime'
 import { createError } from 'h3'
 import middleware from '~/middleware/auth.global'
-import { safeNext } from '~/composables/navigation'
+import { homeOf, safeNext } from '~/composables/navigation'
 import { useSessionStore } from '~/stores/session'
 import { user } from './fixtures'
 
@@ -69,5 +69,16 @@ describe('auth middleware', () => {
     expect(safeNext('//evil.example/x')).toBe('/')
     expect(safeNext('https://evil.example')).toBe('/')
     expect(safeNext('/login')).toBe('/')
+  })
+
+  it('lands an auditor on Evidence after sign-in, everyone else on the dashboard, unless a next page is asked', async () => {
+    useSessionStore().setUser(user({ role: 'auditor' }))
+    await run(route('/login'))
+    expect(navigateToMock).toHaveBeenCalledWith('/evidence', { replace: true })
+    navigateToMock.mockClear()
+    await run(route('/login', {}, { next: '/event-log' }))
+    expect(navigateToMock).toHaveBeenCalledWith('/event-log', { replace: true })
+    expect(homeOf('manager')).toBe('/')
+    expect(safeNext('//evil.example', homeOf('auditor'))).toBe('/evidence')
   })
 })

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { conditionStats, readingCoverage, thin, type EnvPoint } from '../../../server/evidence/coverage'
+import { conditionStats, readingCoverage, thin, wholeMinutes, type EnvPoint } from '../../../server/evidence/coverage'
 
 const p = (t: number, air: number | null, rh: number | null, dp: number | null, panel: number | null = null): EnvPoint => ({ t, airTempC: air, rhPct: rh, panelTempC: panel, airflowMps: 0.4, dewPointC: dp })
 
@@ -24,18 +24,17 @@ describe('conditions over a span', () => {
 
 describe('reading coverage', () => {
   const M = 60_000
-  it('finds runs of missing minutes of at least the threshold', () => {
-    const present = Array.from({ length: 60 }, (_, i) => i * M).filter((m) => m < 10 * M || m >= 20 * M)
-    const c = readingCoverage(3000, present, 0, 60 * M, 5)
+  it('states the gaps found and the rows against one per second', () => {
+    const c = readingCoverage(3000, [{ from: 10 * M, to: 20 * M }], 0, 60 * M, 5)
     expect(c.gaps).toEqual([{ from: new Date(10 * M).toISOString(), to: new Date(20 * M).toISOString(), minutes: 10 }])
     expect(c.expectedRows).toBe(3600)
     expect(c.ratio).toBeCloseTo(3000 / 3600, 6)
+    expect(c.minGapMinutes).toBe(5)
   })
 
-  it('ignores short gaps and reports a gap that runs to the end', () => {
-    const present = Array.from({ length: 50 }, (_, i) => i * M).filter((m) => m !== 5 * M)
-    const c = readingCoverage(2900, present, 0, 60 * M, 5)
-    expect(c.gaps).toEqual([{ from: new Date(50 * M).toISOString(), to: new Date(60 * M).toISOString(), minutes: 10 }])
+  it('looks for gaps in the whole minutes of the period only', () => {
+    expect(wholeMinutes(30_000, 10 * M + 5_000)).toEqual({ first: M, last: 10 * M })
+    expect(wholeMinutes(0, 10 * M)).toEqual({ first: 0, last: 10 * M })
   })
 
   it('thins evenly', () => {
