@@ -3,6 +3,8 @@ import { existsSync, mkdirSync, readFileSync } from 'node:fs'
 import { ensureBuilt } from './lib/build'
 import { startPostgres, stopPostgres } from './lib/postgres'
 import { TEST_PG } from '../tests/support/test-postgres'
+import { ensureChromium } from '../tests/support/browser'
+import { ensureMosquittoInstalled } from '../tests/support/mosquitto'
 
 // npm test: the tests' own PostgreSQL (own data folder and port), a fresh build, every vitest
 // project (unit, nuxt, integration, browser), the type-check, then PostgreSQL stopped again.
@@ -12,6 +14,10 @@ let failed = false
 
 const pgInfo = await startPostgres(TEST_PG)
 try {
+  // Debian's Chromium (browser tests) and Mosquitto (scale tests) installed here, one after the other, when
+  // missing: the test files run in parallel and would otherwise each start an install.
+  ensureChromium()
+  ensureMosquittoInstalled()
   ensureBuilt(process.env.CI === 'true')
   mkdirSync('test-results', { recursive: true })
   const vitest = spawnSync(

@@ -3,6 +3,7 @@ import { randomBytes } from 'node:crypto'
 import { chmodSync, chownSync, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { dirname, join, resolve } from 'node:path'
 import pg from 'pg'
+import { aptInstall, isRoot } from './apt'
 
 // A private PostgreSQL cluster for the demo and the tests: Debian's server binaries, a data folder
 // inside the project (git-ignored), listening on 127.0.0.1 only, TCP only (no socket folder to own).
@@ -18,7 +19,6 @@ export interface RunningPostgres extends LocalPostgres {
 }
 
 const USER = 'boothbeat'
-const isRoot = typeof process.getuid === 'function' && process.getuid() === 0
 
 function findBinDir(): string | undefined {
   const base = '/usr/lib/postgresql'
@@ -38,9 +38,7 @@ export function ensurePostgresInstalled(): string {
     throw new Error(`PostgreSQL server binaries are missing. Install them with:\n  sudo ${command}\nor set DATABASE_URL.`)
   }
   console.log(`[postgres] server binaries missing: running "${command}"`)
-  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' }
-  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit', env })
-  execFileSync('apt-get', ['install', '-y', '-qq', 'postgresql'], { stdio: 'inherit', env })
+  aptInstall(['postgresql'])
   bin = findBinDir()
   if (!bin) throw new Error('postgresql was installed but no pg_ctl was found under /usr/lib/postgresql')
   return bin

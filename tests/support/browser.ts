@@ -1,9 +1,9 @@
-import { spawnSync } from 'node:child_process'
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs'
 import { createRequire } from 'node:module'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { chromium, type BrowserContext, type Page } from 'playwright-core'
+import { aptInstall, isRoot } from '../../scripts/lib/apt'
 
 // Debian's Chromium driven by playwright-core (no browser download). Each call gets its own browser
 // process with a fresh profile, so two people (a booth screen and a manager) never share cookies.
@@ -24,10 +24,7 @@ const ARGS = [
 /** Installs Debian's chromium with apt-get when it is missing and we are root; else explains. */
 export function ensureChromium(): void {
   if (existsSync(CHROMIUM)) return
-  if (process.getuid?.() === 0) {
-    spawnSync('apt-get', ['update'], { stdio: 'inherit' })
-    spawnSync('apt-get', ['install', '-y', '--no-install-recommends', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } })
-  }
+  if (isRoot) aptInstall(['chromium'], { noRecommends: true })
   if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: install Debian's chromium package (apt-get install chromium)`)
 }
 

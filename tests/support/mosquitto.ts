@@ -2,6 +2,7 @@ import { execFileSync, spawn, type ChildProcess } from 'node:child_process'
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
+import { aptInstall } from '../../scripts/lib/apt'
 import { freePort } from '../../scripts/lib/ports'
 
 // Debian's Mosquitto on loopback for the scale tests: password file, ACL mirroring the embedded
@@ -25,9 +26,7 @@ const BIN = '/usr/sbin/mosquitto'
 
 export function ensureMosquittoInstalled(): void {
   if (existsSync(BIN)) return
-  if (process.getuid?.() !== 0) throw new Error('mosquitto is missing: apt-get install -y mosquitto')
-  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' })
-  execFileSync('apt-get', ['install', '-y', '-qq', 'mosquitto'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } })
+  aptInstall(['mosquitto'])
 }
 
 export async function startMosquitto(devices: { id: string; site: string; booth: string; password: string }[]): Promise<Mosquitto> {
